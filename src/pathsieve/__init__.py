@@ -1,0 +1,5 @@
+"""pathsieve: graded, auditable weak labels from surgical pathology reports."""
+
+from __future__ import annotations
+
+__version__ = "0.1.0"
