@@ -1,0 +1,262 @@
+"""Aggregation: mentions and values -> label states per part and per case.
+
+The rules of the label contract (LABELS.md):
+
+* only current mentions about the patient decide; historical, hypothetical and
+  other-experiencer mentions stay in the evidence with their flags;
+* diagnosis, synoptic and addendum sections decide; comment and microscopic
+  text adds support (it decides a label no deciding section mentions);
+  clinical history and gross never decide while a deciding section exists;
+* an addendum that mentions a label wins over the original text for it;
+* a part's state is its most definite positive state among deciding mentions;
+  absent only when every deciding mention is negated; affirmed and negated
+  together give "present" with a conflict flag; a case's state is the most
+  definite positive state across its parts;
+* a mention of a descendant counts for a label (ontology roll-up), and a
+  negated mention of a broader class ("negative for carcinoma") negates the
+  labels wholly beneath it;
+* implications come from the scheme data, never from code.
+"""
+
+from __future__ import annotations
+
+from collections import defaultdict
+from collections.abc import Iterable, Sequence
+from dataclasses import dataclass, field
+from typing import Any
+
+from .pipeline import DECIDING, SUPPORTING, ReadReport
+from .records import CERTAINTY_ORDER, Assertion, LabelState, Mention, Value
+from .schemes import Scheme
+
+__all__ = ["CaseLabels", "EvidenceRow", "PartLabels", "aggregate"]
+
+_RANK = {s: i for i, s in enumerate(CERTAINTY_ORDER)}  # lower is more definite-positive
+
+
+@dataclass(frozen=True, slots=True)
+class EvidenceRow:
+    """One mention or value with the labels it bears on and whether it decided."""
+
+    kind: str  # "mention" | "value"
+    part: str
+    labels: tuple[str, ...]
+    mention: Mention | None
+    value: Value | None
+    assertion: Assertion
+    decides: bool
+    implied_by: str = ""
+
+
+@dataclass
+class PartLabels:
+    part: str
+    states: dict[str, LabelState] = field(default_factory=dict)
+    values: dict[str, Value] = field(default_factory=dict)
+    flags: list[str] = field(default_factory=list)
+
+
+@dataclass
+class CaseLabels:
+    """A case's labels: per part and rolled up, with the evidence behind them."""
+
+    scheme: Scheme
+    parts: list[PartLabels]
+    case: PartLabels
+    evidence: list[EvidenceRow]
+
+    def positive(self) -> list[str]:
+        return [k for k, s in self.case.states.items() if s.state in ("present", "likely")]
+
+    @property
+    def primary_label(self) -> str:
+        return self.scheme.primary(self.positive())
+
+
+def _most_definite(states: Iterable[str]) -> str:
+    return min(states, key=lambda s: _RANK[s])
+
+
+def _negation_reach(scheme: Scheme, concept_id: str) -> tuple[str, ...]:
+    """Labels a *negated* mention of ``concept_id`` speaks against.
+
+    Its own roll-up labels, plus labels whose every class lies beneath the
+    negated concept ("negative for carcinoma" negates adenocarcinoma).
+    """
+    onto = scheme.ontology
+    keys = list(scheme.labels_for(concept_id))
+    for key, d in scheme.labels.items():
+        if key not in keys and all(onto.is_a(c, concept_id) for c in d.classes):
+            keys.append(key)
+    return tuple(keys)
+
+
+def _section_role(section: str, report: ReadReport) -> str:
+    if section in DECIDING:
+        return "decide"
+    if section in SUPPORTING:
+        return "support"
+    if not report.has_deciding_section and section not in ("clinical_history",):
+        # a report with no diagnosis section: its text is the diagnosis
+        return "decide" if section != "gross" else "support"
+    return "none"
+
+
+def aggregate(report: ReadReport, scheme: Scheme) -> CaseLabels:
+    """Aggregate a read report into per-part and per-case labels."""
+    # (part, label) -> role -> list of (state, from_addendum)
+    votes: dict[tuple[str, str], dict[str, list[tuple[str, bool]]]] = defaultdict(
+        lambda: defaultdict(list)
+    )
+    evidence: list[EvidenceRow] = []
+    part_order: list[str] = []
+    for p in report.parts:
+        if p.label not in part_order:
+            part_order.append(p.label)
+
+    for m, a in zip(report.mentions, report.assertions, strict=True):
+        keys = _negation_reach(scheme, m.concept_id) if a.certainty == "absent" else scheme.labels_for(m.concept_id)
+        role = _section_role(m.section, report)
+        decides = bool(keys) and a.counts and role != "none"
+        evidence.append(EvidenceRow("mention", m.part, keys, m, None, a, decides))
+        if not decides:
+            continue
+        if m.part not in part_order:
+            part_order.append(m.part)
+        for k in keys:
+            votes[(m.part, k)][role].append((a.certainty, m.section == "addendum"))
+
+    values_by_part: dict[str, list[Value]] = defaultdict(list)
+    for v, a in zip(report.values, report.value_assertions, strict=True):
+        role = _section_role(v.section, report)
+        decides = a.counts and role != "none"
+        evidence.append(EvidenceRow("value", v.part, (v.key,), None, v, a, decides))
+        if decides and v.key in scheme.value_keys:
+            values_by_part[v.part].append(v)
+            if v.part not in part_order:
+                part_order.append(v.part)
+
+    parts: dict[str, PartLabels] = {label: PartLabels(label) for label in part_order}
+    for (part, key), roles in votes.items():
+        chosen = roles.get("decide") or roles.get("support") or []
+        if not chosen:
+            continue
+        addenda = [s for s, from_add in chosen if from_add]
+        pool = addenda or [s for s, _ in chosen]
+        state = _most_definite(pool)
+        conflict = "absent" in pool and any(s != "absent" for s in pool)
+        parts[part].states[key] = LabelState(key, state, conflict=conflict)
+        if conflict:
+            parts[part].flags.append(f"conflict:{key}")
+
+    for label, plist in parts.items():
+        plist.values.update(_pick_values(values_by_part.get(label, [])))
+        _apply_implications(scheme, report, plist, evidence)
+        for v in plist.values.values():
+            plist.flags.extend(v.flags)
+
+    case = PartLabels("")
+    for plist in parts.values():
+        for key, st in plist.states.items():
+            prev = case.states.get(key)
+            if prev is None or _RANK[st.state] < _RANK[prev.state]:
+                case.states[key] = LabelState(key, st.state, st.conflict or bool(prev and prev.conflict), st.implied)
+            elif st.conflict and not prev.conflict:
+                case.states[key] = LabelState(key, prev.state, True, prev.implied)
+    case.values = _pick_values([v for p in parts.values() for v in p.values.values()])
+    case.flags = sorted({f for p in parts.values() for f in p.flags})
+    ordered = [parts[label] for label in part_order if label in parts]
+    # part "" holds case-level statements (e.g. a comment under no part); it is not a specimen
+    specimen_parts = [p for p in ordered if p.part != ""] or ordered
+    return CaseLabels(scheme, specimen_parts, case, evidence)
+
+
+def _apply_implications(
+    scheme: Scheme, report: ReadReport, plist: PartLabels, evidence: list[EvidenceRow]
+) -> None:
+    onto = scheme.ontology
+    for imp in scheme.implications:
+        if imp.then_label in plist.states:
+            continue
+        if any(u in plist.states for u in imp.unless):
+            continue
+        why = ""
+        if imp.concept is not None:
+            for row in evidence:
+                m = row.mention
+                if (
+                    m is not None
+                    and row.part == plist.part
+                    and row.assertion.counts
+                    and row.assertion.certainty in ("present", "likely")
+                    and _section_role(m.section, report) != "none"
+                    and onto.is_a(m.concept_id, imp.concept)
+                ):
+                    why = f"{m.label} ({m.concept_id})"
+                    break
+        elif imp.value_key is not None:
+            v = plist.values.get(imp.value_key)
+            if v is not None and str(v.value) in imp.value_in:
+                why = f"{imp.value_key}={v.value}"
+        if why:
+            plist.states[imp.then_label] = LabelState(imp.then_label, imp.then_state, implied=True)
+            plist.flags.append(f"implied:{imp.then_label}")
+
+
+# ------------------------------------------------------------------ values
+
+_SECTION_PREF = {"addendum": 0, "synoptic": 1, "diagnosis": 2}
+_ORDINAL: dict[str, Any] = {
+    "margin_status": {"involved": 1, "negative": 0},
+    "lymphovascular_invasion": {"present": 1, "absent": 0},
+    "her2_status": {"positive": 2, "equivocal": 1, "negative": 0},
+}
+_MAX_NUMERIC = frozenset({"grade_group", "nottingham_grade", "tumor_size_mm", "lymph_nodes_examined"})
+
+
+def _value_rank(v: Value) -> Any:
+    """Larger is 'worse' (what a case-level value should report)."""
+    key = v.key
+    if key == "gleason_score":
+        d = v.detail
+        return (int(d.get("total") or 0), int(d.get("primary") or 0))
+    if key in _ORDINAL:
+        return _ORDINAL[key].get(str(v.value), -1)
+    if key == "marsh_grade":
+        return ["0", "1", "2", "3a", "3b", "3c", "4"].index(str(v.value)) if str(v.value) in {"0", "1", "2", "3a", "3b", "3c", "4"} else -1
+    if key in ("pt", "pn", "pm"):
+        return str(v.value).lstrip("yrpm")
+    if key in _MAX_NUMERIC or key == "lymph_nodes_positive":
+        try:
+            return float(v.value)
+        except (TypeError, ValueError):
+            return -1.0
+    return 0
+
+
+def _pick_values(values: Sequence[Value]) -> dict[str, Value]:
+    """One value per key: addendum first, then synoptic/diagnosis, then the 'worst'.
+
+    Lymph-node counts travel together: the positive count is taken from the
+    statement that gave the chosen examined count when there is one.
+    """
+    by_key: dict[str, list[Value]] = defaultdict(list)
+    for v in values:
+        by_key[v.key].append(v)
+    out: dict[str, Value] = {}
+    for key, vs in by_key.items():
+        if key == "grade_group":
+            stated = [v for v in vs if not v.detail.get("derived")]
+            vs = stated or vs
+        best_pref = min(_SECTION_PREF.get(v.section, 3) for v in vs)
+        pool = [v for v in vs if _SECTION_PREF.get(v.section, 3) == best_pref]
+        if key in ("er_status", "pr_status"):
+            out[key] = pool[0]
+        else:
+            out[key] = max(pool, key=_value_rank)
+    examined = out.get("lymph_nodes_examined")
+    if examined is not None:
+        twins = [v for v in by_key.get("lymph_nodes_positive", []) if v.start == examined.start]
+        if twins:
+            out["lymph_nodes_positive"] = twins[0]
+    return out

@@ -1,0 +1,64 @@
+"""``pathsieve label INPUT --scheme NAME -o OUT``: label a report export."""
+
+from __future__ import annotations
+
+import argparse
+import sys
+from typing import Any
+
+from ..export import UNCERTAIN_MODES
+from ..runner import LabelOptions, default_workers, label_file
+
+__all__ = ["register", "run"]
+
+
+def register(sub: Any) -> None:
+    p = sub.add_parser(
+        "label",
+        help="label reports (CSV/TSV, JSONL, Parquet, Excel or a folder of .txt)",
+        description=__doc__,
+    )
+    p.add_argument("input", help="report export, or a folder of .txt files (stem = case id)")
+    p.add_argument("--scheme", required=True, help="scheme name (see `pathsieve schemes`) or YAML path")
+    p.add_argument("-o", "--output", required=True, help="label table: .csv, .parquet or .jsonl")
+    p.add_argument("--per", choices=("case", "part"), default="case", help="one row per case or per specimen part")
+    p.add_argument("--evidence", help="evidence table (.jsonl or .parquet): one row per mention and value")
+    p.add_argument("--states", action="store_true", help="write state words instead of certainty scores")
+    p.add_argument(
+        "--uncertain",
+        choices=UNCERTAIN_MODES,
+        help="training export: binarise labels; uncertain ones dropped (empty), positive, negative or 0.5",
+    )
+    p.add_argument("--id-col", default="case_id", help="case id column (default: case_id)")
+    p.add_argument("--text-col", default="text", help="report text column (default: text)")
+    p.add_argument("--workers", type=int, default=None, help="processes (default: all cores)")
+    p.add_argument(
+        "--redact-evidence",
+        action="store_true",
+        help="evidence without matched text (offsets and concept ids only)",
+    )
+    p.add_argument("--no-progress", action="store_true", help="no progress bar")
+    p.set_defaults(func=run)
+
+
+def run(args: argparse.Namespace) -> int:
+    options = LabelOptions(
+        scheme=args.scheme,
+        per=args.per,
+        states=args.states,
+        uncertain=args.uncertain,
+        redact=args.redact_evidence,
+    )
+    summary = label_file(
+        args.input,
+        args.output,
+        options,
+        evidence_path=args.evidence,
+        id_col=args.id_col,
+        text_col=args.text_col,
+        workers=args.workers or default_workers(),
+        progress=not args.no_progress and sys.stderr.isatty(),
+    )
+    print(summary.text(), file=sys.stderr)
+    print(f"labels: {args.output}" + (f"  evidence: {args.evidence}" if args.evidence else ""), file=sys.stderr)
+    return 0
