@@ -25,8 +25,16 @@ from collections.abc import Iterable, Sequence
 from dataclasses import dataclass, field
 from typing import Any
 
-from .pipeline import DECIDING, SUPPORTING, ReadReport
-from .records import CERTAINTY_ORDER, Assertion, LabelState, Mention, Value
+from .records import (
+    CERTAINTY_ORDER,
+    DECIDING,
+    SUPPORTING,
+    Assertion,
+    LabelState,
+    Mention,
+    ReadReport,
+    Value,
+)
 from .schemes import Scheme
 
 __all__ = ["CaseLabels", "EvidenceRow", "PartLabels", "aggregate"]
@@ -115,7 +123,11 @@ def aggregate(report: ReadReport, scheme: Scheme) -> CaseLabels:
             part_order.append(p.label)
 
     for m, a in zip(report.mentions, report.assertions, strict=True):
-        keys = _negation_reach(scheme, m.concept_id) if a.certainty == "absent" else scheme.labels_for(m.concept_id)
+        keys = (
+            _negation_reach(scheme, m.concept_id)
+            if a.certainty == "absent"
+            else scheme.labels_for(m.concept_id)
+        )
         role = _section_role(m.section, report)
         decides = bool(keys) and a.counts and role != "none"
         evidence.append(EvidenceRow("mention", m.part, keys, m, None, a, decides))
@@ -160,7 +172,9 @@ def aggregate(report: ReadReport, scheme: Scheme) -> CaseLabels:
         for key, st in plist.states.items():
             prev = case.states.get(key)
             if prev is None or _RANK[st.state] < _RANK[prev.state]:
-                case.states[key] = LabelState(key, st.state, st.conflict or bool(prev and prev.conflict), st.implied)
+                case.states[key] = LabelState(
+                    key, st.state, st.conflict or bool(prev and prev.conflict), st.implied
+                )
             elif st.conflict and not prev.conflict:
                 case.states[key] = LabelState(key, prev.state, True, prev.implied)
     case.values = _pick_values([v for p in parts.values() for v in p.values.values()])
@@ -211,7 +225,9 @@ _ORDINAL: dict[str, Any] = {
     "lymphovascular_invasion": {"present": 1, "absent": 0},
     "her2_status": {"positive": 2, "equivocal": 1, "negative": 0},
 }
-_MAX_NUMERIC = frozenset({"grade_group", "nottingham_grade", "tumor_size_mm", "lymph_nodes_examined"})
+_MAX_NUMERIC = frozenset(
+    {"grade_group", "nottingham_grade", "tumor_size_mm", "lymph_nodes_examined"}
+)
 
 
 def _value_rank(v: Value) -> Any:
@@ -223,7 +239,11 @@ def _value_rank(v: Value) -> Any:
     if key in _ORDINAL:
         return _ORDINAL[key].get(str(v.value), -1)
     if key == "marsh_grade":
-        return ["0", "1", "2", "3a", "3b", "3c", "4"].index(str(v.value)) if str(v.value) in {"0", "1", "2", "3a", "3b", "3c", "4"} else -1
+        return (
+            ["0", "1", "2", "3a", "3b", "3c", "4"].index(str(v.value))
+            if str(v.value) in {"0", "1", "2", "3a", "3b", "3c", "4"}
+            else -1
+        )
     if key in ("pt", "pn", "pm"):
         return str(v.value).lstrip("yrpm")
     if key in _MAX_NUMERIC or key == "lymph_nodes_positive":

@@ -54,7 +54,15 @@ EVIDENCE_COLUMNS = [
 
 def label_columns(scheme: Scheme, per: str = "case") -> list[str]:
     head = ["case_id", "part"] if per == "part" else ["case_id"]
-    return [*head, "status", "error", "primary_label", *scheme.label_keys, *scheme.value_keys, "flags"]
+    return [
+        *head,
+        "status",
+        "error",
+        "primary_label",
+        *scheme.label_keys,
+        *scheme.value_keys,
+        "flags",
+    ]
 
 
 def _cell(state: LabelState | None, *, states: bool, uncertain: str | None) -> Any:
@@ -109,7 +117,9 @@ def label_rows(
     return [_row(case_id, p.part, p, scheme, states=states, uncertain=uncertain) for p in parts]
 
 
-def error_rows(case_id: str, message: str, scheme: Scheme, *, per: str = "case") -> list[dict[str, Any]]:
+def error_rows(
+    case_id: str, message: str, scheme: Scheme, *, per: str = "case"
+) -> list[dict[str, Any]]:
     """The row of a case that could not be labelled: status error, nothing else invented."""
     row: dict[str, Any] = dict.fromkeys(label_columns(scheme, per))
     row.update(case_id=case_id, status="error", error=message, primary_label="", flags="")
@@ -120,7 +130,9 @@ def error_rows(case_id: str, message: str, scheme: Scheme, *, per: str = "case")
     return [row]
 
 
-def evidence_rows(case_id: str, result: CaseLabels, *, redact: bool = False) -> list[dict[str, Any]]:
+def evidence_rows(
+    case_id: str, result: CaseLabels, *, redact: bool = False
+) -> list[dict[str, Any]]:
     """One evidence row per mention and value; ``redact`` drops matched text."""
     out = []
     for ev in result.evidence:
@@ -134,7 +146,12 @@ def evidence_rows(case_id: str, result: CaseLabels, *, redact: bool = False) -> 
             "experiencer": a.experiencer,
             "decides": ev.decides,
             "triggers": [
-                {"text": "" if redact else t.text, "start": t.start, "end": t.end, "category": t.category}
+                {
+                    "text": "" if redact else t.text,
+                    "start": t.start,
+                    "end": t.end,
+                    "category": t.category,
+                }
                 for t in a.triggers
             ],
         }
@@ -174,4 +191,3 @@ def evidence_rows(case_id: str, result: CaseLabels, *, redact: bool = False) -> 
             )
         out.append({k: base.get(k) for k in EVIDENCE_COLUMNS})
     return out
-

@@ -66,7 +66,9 @@ def sniff_csv(path: Path) -> tuple[str, str]:
     return encoding, delim
 
 
-def _finish(df: pd.DataFrame, id_col: str, text_col: str, source: Path, first_row: int, seen: set[str]) -> pd.DataFrame:
+def _finish(
+    df: pd.DataFrame, id_col: str, text_col: str, source: Path, first_row: int, seen: set[str]
+) -> pd.DataFrame:
     """Normalise a raw chunk into case_id, text, row, error columns."""
     cols = list(df.columns)
     for col in (id_col, text_col):
@@ -82,7 +84,9 @@ def _finish(df: pd.DataFrame, id_col: str, text_col: str, source: Path, first_ro
     for i, (cid, text) in enumerate(zip(ids.tolist(), texts.tolist(), strict=True)):
         row = first_row + i
         error = ""
-        case_id = "" if cid is None or (isinstance(cid, float) and pd.isna(cid)) else str(cid).strip()
+        case_id = (
+            "" if cid is None or (isinstance(cid, float) and pd.isna(cid)) else str(cid).strip()
+        )
         if isinstance(text, bytes):
             text = text.decode("utf-8", errors="replace")
         if text is None or (isinstance(text, float) and pd.isna(text)):
@@ -129,7 +133,12 @@ def read_reports(
 
 
 def _raw_chunks(
-    source: Path, suffix: str, id_col: str, text_col: str, chunk_rows: int, warn: Callable[[str], None]
+    source: Path,
+    suffix: str,
+    id_col: str,
+    text_col: str,
+    chunk_rows: int,
+    warn: Callable[[str], None],
 ) -> Iterator[pd.DataFrame]:
     try:
         if suffix == ".parquet":
@@ -179,7 +188,9 @@ def _header_width(source: Path, encoding: str, delim: str) -> int:
 
 def _bad_line(source: Path, bad: list[str], width: int, warn: Callable[[str], None]) -> list[str]:
     """Keep a row with extra fields (its first columns) rather than lose it."""
-    warn(f"{source}: a row with {len(bad)} fields (header has {width}) was read from its first columns")
+    warn(
+        f"{source}: a row with {len(bad)} fields (header has {width}) was read from its first columns"
+    )
     return (bad + [""] * width)[:width]
 
 
@@ -194,7 +205,9 @@ def _read_jsonl(source: Path, chunk_rows: int) -> Iterator[pd.DataFrame]:
                 if not isinstance(obj, dict):
                     raise ValueError("not an object")
             except ValueError as exc:
-                raise InputError(f"line {n} is not a JSON object ({exc})", path=source, line=n) from exc
+                raise InputError(
+                    f"line {n} is not a JSON object ({exc})", path=source, line=n
+                ) from exc
             rows.append(obj)
             if len(rows) >= chunk_rows:
                 yield pd.DataFrame(rows)
@@ -232,9 +245,7 @@ class TableWriter:
         self.path = Path(path)
         self.suffix = self.path.suffix.lower()
         if self.suffix not in OUTPUT_SUFFIXES:
-            raise ConfigError(
-                f"output {self.path} must end in {', '.join(OUTPUT_SUFFIXES)}"
-            )
+            raise ConfigError(f"output {self.path} must end in {', '.join(OUTPUT_SUFFIXES)}")
         parent = self.path.parent
         if not parent.is_dir():
             raise ConfigError(f"output folder {parent} does not exist; create it first")

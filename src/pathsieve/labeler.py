@@ -51,7 +51,9 @@ class LabeledReport:
         for ev in self.result.evidence:
             m = ev.mention
             if m is not None:
-                spans.append((m.start, m.end, ev.assertion.certainty, ev.decides, m.label, ev.assertion))
+                spans.append(
+                    (m.start, m.end, ev.assertion.certainty, ev.decides, m.label, ev.assertion)
+                )
         spans.sort(key=lambda s: (s[0], -s[1]))
         out, pos = [], 0
         for start, end, cert, decides, label, a in spans:
@@ -139,7 +141,10 @@ class Labeler:
                 result = self.label_report(text)
             except Exception as exc:  # one bad report never stops a run
                 rows += error_rows(
-                    case_id, f"case {case_id}: {type(exc).__name__} while labelling", self.scheme, per=per
+                    case_id,
+                    f"case {case_id}: {type(exc).__name__} while labelling",
+                    self.scheme,
+                    per=per,
                 )
                 continue
             rows += label_rows(case_id, result, per=per, states=states, uncertain=uncertain)
@@ -174,11 +179,16 @@ class Labeler:
         return frame_from_rows(rows, self.columns(per), self.scheme, states=False)
 
 
-def frame_from_rows(rows: list[dict[str, Any]], columns: list[str], scheme: Scheme, *, states: bool) -> pd.DataFrame:
+def frame_from_rows(
+    rows: list[dict[str, Any]], columns: list[str], scheme: Scheme, *, states: bool
+) -> pd.DataFrame:
     """A label table with stable dtypes (scores float, everything else string)."""
     df = pd.DataFrame(rows, columns=columns)
     for key in scheme.label_keys:
-        if not states and (df[key].isna() | df[key].map(lambda x: isinstance(x, float | int))).all():
+        if (
+            not states
+            and (df[key].isna() | df[key].map(lambda x: isinstance(x, float | int))).all()
+        ):
             df[key] = df[key].astype("float64")
     return df
 

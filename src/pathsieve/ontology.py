@@ -193,7 +193,9 @@ def _closure(terms: dict[str, Term]) -> dict[str, frozenset[str]]:
 
 _STANZA_RE = re.compile(r"^\[(\w+)\]\s*$")
 _TAG_RE = re.compile(r"^([A-Za-z_][\w-]*):\s?(.*)$")
-_SYNONYM_RE = re.compile(r'^"((?:[^"\\]|\\.)*)"\s+(\S+)(?:\s+([A-Za-z_][\w:-]*))?\s*\[.*\]\s*(?:\{.*\})?$')
+_SYNONYM_RE = re.compile(
+    r'^"((?:[^"\\]|\\.)*)"\s+(\S+)(?:\s+([A-Za-z_][\w:-]*))?\s*\[.*\]\s*(?:\{.*\})?$'
+)
 _SCOPES = frozenset({"EXACT", "RELATED", "NARROW", "BROAD"})
 _KNOWN_STANZAS = frozenset({"Term", "Typedef", "Instance"})
 
@@ -287,7 +289,9 @@ def _terms_from_scan(path: Path, stanzas: list[_Stanza]) -> dict[str, Term]:
         for value, _ in st.all("synonym"):
             sm = _SYNONYM_RE.match(value)
             if sm and sm.group(2) in _SCOPES:
-                syns.append(Synonym(sm.group(1).replace('\\"', '"'), sm.group(2), sm.group(3) or ""))
+                syns.append(
+                    Synonym(sm.group(1).replace('\\"', '"'), sm.group(2), sm.group(3) or "")
+                )
         shared = []
         for value, _ in st.all("property_value"):
             pm = re.match(r'^(\S+)\s+"((?:[^"\\]|\\.)*)"', value)

@@ -16,8 +16,9 @@ spaCy.
 from __future__ import annotations
 
 import bisect
+import itertools
 from collections.abc import Iterable, Sequence
-from dataclasses import dataclass, replace
+from dataclasses import replace
 from functools import lru_cache
 from typing import Any
 
@@ -30,17 +31,14 @@ from .assertion import AssertionEngine
 from .matcher import ConceptMatcher
 from .ontology import Ontology, load_ontology
 from .parts import find_parts
-from .records import Assertion, Mention, Part, Section, Value
+from .records import DECIDING, Mention, Part, ReadReport, Section, Segment
 from .schemes import Scheme, load_scheme
 from .sections import find_sections
 from .tokenizer import make_tokenizer
 from .values import extract_values
 
-__all__ = ["ReadReport", "Segment", "build_nlp", "read", "read_report"]
+__all__ = ["POLARITY_VALUES", "build_nlp", "read", "read_report"]
 
-#: Sections whose statements decide labels, and sections that may add support.
-DECIDING = frozenset({"diagnosis", "synoptic", "addendum"})
-SUPPORTING = frozenset({"comment", "microscopic"})
 #: Values whose polarity is the value itself ("no lymphovascular invasion" -> absent):
 #: a negation trigger must not drop them.
 POLARITY_VALUES = frozenset(
@@ -56,34 +54,6 @@ POLARITY_VALUES = frozenset(
 )
 
 
-@dataclass(frozen=True, slots=True)
-class Segment:
-    """A stretch of text with one section kind and one specimen part."""
-
-    start: int
-    end: int
-    section: str
-    part: str
-
-
-@dataclass(frozen=True, slots=True)
-class ReadReport:
-    """Everything the pipeline read from one report (offsets into ``text``)."""
-
-    text: str
-    sections: tuple[Section, ...]
-    parts: tuple[Part, ...]
-    mentions: tuple[Mention, ...]
-    assertions: tuple[Assertion, ...]
-    values: tuple[Value, ...]
-    value_assertions: tuple[Assertion, ...]
-    segments: tuple[Segment, ...]
-
-    @property
-    def has_deciding_section(self) -> bool:
-        return any(s.kind in DECIDING for s in self.sections)
-
-
 def _segments(text: str, sections: Sequence[Section], parts: Sequence[Part]) -> list[Segment]:
     """Partition the text by section and part (parts nest inside sections)."""
     cuts = {0, len(text)}
@@ -95,7 +65,7 @@ def _segments(text: str, sections: Sequence[Section], parts: Sequence[Part]) -> 
     sec_starts = [s.start for s in sections]
     single = len({p.label for p in parts}) <= 1
     out: list[Segment] = []
-    for a, b in zip(points, points[1:], strict=False):
+    for a, b in itertools.pairwise(points):
         if a == b:
             continue
         i = bisect.bisect_right(sec_starts, a) - 1
@@ -217,7 +187,9 @@ def make_concepts(nlp: Language, name: str) -> Any:
     return component
 
 
-def _fill_part_concepts(st: _State, parts: Iterable[Part], mentions: Sequence[Mention]) -> list[Part]:
+def _fill_part_concepts(
+    st: _State, parts: Iterable[Part], mentions: Sequence[Mention]
+) -> list[Part]:
     out = []
     for p in parts:
         if p.header_end <= p.start:

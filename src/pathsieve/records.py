@@ -15,15 +15,19 @@ from typing import Any, Literal
 __all__ = [
     "CERTAINTY_ORDER",
     "CERTAINTY_SCORE",
+    "DECIDING",
     "EXPERIENCERS",
     "SECTION_KINDS",
+    "SUPPORTING",
     "TEMPORALITIES",
     "Assertion",
     "Certainty",
     "LabelState",
     "Mention",
     "Part",
+    "ReadReport",
     "Section",
+    "Segment",
     "TriggerHit",
     "Value",
     "score_to_state",
@@ -174,3 +178,36 @@ class LabelState:
     @property
     def score(self) -> float:
         return CERTAINTY_SCORE[self.state]
+
+
+#: Sections whose statements decide labels, and sections that may add support.
+DECIDING = frozenset({"diagnosis", "synoptic", "addendum"})
+SUPPORTING = frozenset({"comment", "microscopic"})
+
+
+@dataclass(frozen=True, slots=True)
+class Segment:
+    """A stretch of text with one section kind and one specimen part."""
+
+    start: int
+    end: int
+    section: str
+    part: str
+
+
+@dataclass(frozen=True, slots=True)
+class ReadReport:
+    """Everything the pipeline read from one report (offsets into ``text``)."""
+
+    text: str
+    sections: tuple[Section, ...]
+    parts: tuple[Part, ...]
+    mentions: tuple[Mention, ...]
+    assertions: tuple[Assertion, ...]
+    values: tuple[Value, ...]
+    value_assertions: tuple[Assertion, ...]
+    segments: tuple[Segment, ...]
+
+    @property
+    def has_deciding_section(self) -> bool:
+        return any(s.kind in DECIDING for s in self.sections)

@@ -62,7 +62,9 @@ def _init_worker(scheme: str) -> None:
     _WORKER["labeler"] = Labeler(scheme)
 
 
-def _label_chunk(args: tuple[LabelOptions, list[tuple[str, str, str]]]) -> tuple[list[dict[str, Any]], list[dict[str, Any]]]:
+def _label_chunk(
+    args: tuple[LabelOptions, list[tuple[str, str, str]]],
+) -> tuple[list[dict[str, Any]], list[dict[str, Any]]]:
     opts, records = args
     labeler: Labeler = _WORKER["labeler"]
     return labeler.label_records(
@@ -75,7 +77,9 @@ def _label_chunk(args: tuple[LabelOptions, list[tuple[str, str, str]]]) -> tuple
     )
 
 
-def _chunks(path: Path, id_col: str, text_col: str, chunk_rows: int) -> Iterator[list[tuple[str, str, str]]]:
+def _chunks(
+    path: Path, id_col: str, text_col: str, chunk_rows: int
+) -> Iterator[list[tuple[str, str, str]]]:
     for chunk in read_reports(path, id_col=id_col, text_col=text_col, chunk_rows=chunk_rows):
         yield list(zip(chunk.case_id, chunk.text, chunk.error, strict=True))
 
@@ -99,7 +103,11 @@ def label_file(
         raise ConfigError(f"--uncertain must be one of {', '.join(UNCERTAIN_MODES)}")
     labeler = Labeler(options.scheme)  # fails fast on a bad scheme, before anything is written
     opts = LabelOptions(
-        options.scheme, options.per, options.states, options.uncertain, options.redact,
+        options.scheme,
+        options.per,
+        options.states,
+        options.uncertain,
+        options.redact,
         evidence=evidence_path is not None,
     )
     columns = labeler.columns(options.per)
@@ -111,7 +119,9 @@ def label_file(
     try:
         chunks = _chunks(Path(input_path), id_col, text_col, chunk_rows)
         if workers > 1:
-            pool = ProcessPoolExecutor(workers, initializer=_init_worker, initargs=(options.scheme,))
+            pool = ProcessPoolExecutor(
+                workers, initializer=_init_worker, initargs=(options.scheme,)
+            )
             results = pool.map(_label_chunk, ((opts, c) for c in chunks))
         else:
             _WORKER["labeler"] = labeler
@@ -167,4 +177,6 @@ def _progress(enabled: bool) -> Any:
 
 
 def default_workers() -> int:
-    return max(1, len(os.sched_getaffinity(0)) if hasattr(os, "sched_getaffinity") else os.cpu_count() or 1)
+    return max(
+        1, len(os.sched_getaffinity(0)) if hasattr(os, "sched_getaffinity") else os.cpu_count() or 1
+    )

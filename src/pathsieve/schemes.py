@@ -13,6 +13,7 @@ edit it, and pass its path wherever a scheme name is accepted.
 
 from __future__ import annotations
 
+import contextlib
 from collections.abc import Sequence
 from dataclasses import dataclass, field
 from functools import lru_cache
@@ -202,10 +203,8 @@ def _yaml_lines(text: str) -> dict[tuple[str, ...], int]:
                 out[key] = v.start_mark.line + 1
                 walk(v, key)
 
-    try:
+    with contextlib.suppress(yaml.YAMLError):
         walk(yaml.compose(text), ())
-    except yaml.YAMLError:
-        pass
     return out
 
 
@@ -246,7 +245,9 @@ def _parse(path: Path) -> tuple[_SchemeModel, dict[tuple[str, ...], int]]:
     return model, lines
 
 
-def _problems(path: Path, model: _SchemeModel, lines: dict[tuple[str, ...], int], onto: Ontology) -> list[str]:
+def _problems(
+    path: Path, model: _SchemeModel, lines: dict[tuple[str, ...], int], onto: Ontology
+) -> list[str]:
     problems: list[str] = []
 
     def at(*loc: Any) -> str:

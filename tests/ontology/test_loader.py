@@ -93,16 +93,36 @@ def _line_of(path: Path, needle: str) -> int:
     ("old", "new", "needle", "expect"),
     [
         ("[Term]\nid: PSV:0000003", "[Trem]\nid: PSV:0000003", "[Trem]", "bad stanza"),
-        ('"adeno-carcinoma" EXACT', '"adeno-carcinoma" SIMILAR', "SIMILAR", "invalid synonym scope: SIMILAR"),
+        (
+            '"adeno-carcinoma" EXACT',
+            '"adeno-carcinoma" SIMILAR',
+            "SIMILAR",
+            "invalid synonym scope: SIMILAR",
+        ),
         (
             "name: neoplasm\n",
             "name: neoplasm\nis_a: PSV:0000004 ! mucinous adenocarcinoma\n",
             "is_a: PSV:0000004",
             "is_a cycle",
         ),
-        ("is_a: PSV:0000003 ! adenocarcinoma", "is_a: PSV:0000333 ! nowhere", "PSV:0000333", "not defined"),
-        ('synonym: "colloid carcinoma" EXACT []', 'synonym: "adenoca" EXACT []', '"adenoca" EXACT []', "belongs to"),
-        ("xref: ICDO3:8140/3", "xref: ICDO3:8140/2", "ICDO3:8140/2\nis_a: PSV:0000002", "behaviour /2"),
+        (
+            "is_a: PSV:0000003 ! adenocarcinoma",
+            "is_a: PSV:0000333 ! nowhere",
+            "PSV:0000333",
+            "not defined",
+        ),
+        (
+            'synonym: "colloid carcinoma" EXACT []',
+            'synonym: "adenoca" EXACT []',
+            '"adenoca" EXACT []',
+            "belongs to",
+        ),
+        (
+            "xref: ICDO3:8140/3",
+            "xref: ICDO3:8140/2",
+            "ICDO3:8140/2\nis_a: PSV:0000002",
+            "behaviour /2",
+        ),
     ],
     ids=["bad-stanza", "unknown-scope", "cycle", "dangling-parent", "shared-synonym", "behaviour"],
 )
@@ -115,7 +135,10 @@ def test_broken_ontology_names_file_and_line(
     hit = [m for m in problems if expect in m]
     assert hit, problems
     if "\n" not in needle:
-        assert any(f"{p}:{_line_of(p, needle)}:" in m for m in hit) or expect in {"is_a cycle", "belongs to"}, hit
+        assert any(f"{p}:{_line_of(p, needle)}:" in m for m in hit) or expect in {
+            "is_a cycle",
+            "belongs to",
+        }, hit
     else:
         assert f"{p}:" in hit[0]
 

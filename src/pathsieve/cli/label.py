@@ -19,11 +19,22 @@ def register(sub: Any) -> None:
         description=__doc__,
     )
     p.add_argument("input", help="report export, or a folder of .txt files (stem = case id)")
-    p.add_argument("--scheme", required=True, help="scheme name (see `pathsieve schemes`) or YAML path")
+    p.add_argument(
+        "--scheme", required=True, help="scheme name (see `pathsieve schemes`) or YAML path"
+    )
     p.add_argument("-o", "--output", required=True, help="label table: .csv, .parquet or .jsonl")
-    p.add_argument("--per", choices=("case", "part"), default="case", help="one row per case or per specimen part")
-    p.add_argument("--evidence", help="evidence table (.jsonl or .parquet): one row per mention and value")
-    p.add_argument("--states", action="store_true", help="write state words instead of certainty scores")
+    p.add_argument(
+        "--per",
+        choices=("case", "part"),
+        default="case",
+        help="one row per case or per specimen part",
+    )
+    p.add_argument(
+        "--evidence", help="evidence table (.jsonl or .parquet): one row per mention and value"
+    )
+    p.add_argument(
+        "--states", action="store_true", help="write state words instead of certainty scores"
+    )
     p.add_argument(
         "--uncertain",
         choices=UNCERTAIN_MODES,
@@ -60,5 +71,8 @@ def run(args: argparse.Namespace) -> int:
         progress=not args.no_progress and sys.stderr.isatty(),
     )
     print(summary.text(), file=sys.stderr)
-    print(f"labels: {args.output}" + (f"  evidence: {args.evidence}" if args.evidence else ""), file=sys.stderr)
+    print(
+        f"labels: {args.output}" + (f"  evidence: {args.evidence}" if args.evidence else ""),
+        file=sys.stderr,
+    )
     return 0

@@ -16,7 +16,9 @@ def register(sub: Any) -> None:
     p = sub.add_parser("ontology", help="check the ontology", description=__doc__)
     osub = p.add_subparsers(dest="ontology_command", metavar="ACTION", required=True)
     c = osub.add_parser("check", help="parse and check an OBO file (default: the shipped one)")
-    c.add_argument("path", nargs="?", default=None, help="OBO file (default: ontology/pathsieve.obo)")
+    c.add_argument(
+        "path", nargs="?", default=None, help="OBO file (default: ontology/pathsieve.obo)"
+    )
     c.set_defaults(func=run)
 
 
