@@ -19,7 +19,13 @@ __all__ = ["LEXICON_CHECKS", "check_vocab"]
 
 #: (lexicon file name, module, checker function name); a checker takes the path and
 #: returns "file:line: message" problems.
-LEXICON_CHECKS: tuple[tuple[str, str, str], ...] = ()
+LEXICON_CHECKS: tuple[tuple[str, str, str], ...] = (
+    ("section_headers.yaml", "sections", "check_headers"),
+    ("triggers.tsv", "assertion", "check_triggers"),
+    ("values.yaml", "values.lexicon", "check_value_lexicon"),
+    ("abbreviations.tsv", "abbreviations", "check_abbreviations"),
+    ("common_words.txt", "matcher", "check_common_words"),
+)
 
 
 def check_vocab() -> list[str]:

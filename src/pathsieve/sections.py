@@ -1,0 +1,842 @@
+"""Split a pathology report into sections (diagnosis, gross, synoptic...).
+
+The sectioner reads the report once, line by line, and recognises the header
+styles laboratories use: ALL CAPS lines ("GROSS DESCRIPTION"), Title Case with a
+colon ("Clinical History:"), numbered ("II. GROSS"), inline
+("DIAGNOSIS: Tubular adenoma", even "FINAL DIAGNOSIS:Tubular" or the run-on
+"DIAGNOSISTubular"), decorated ("*** FINAL DIAGNOSIS ***", "--- Gross ---")
+and OCR-damaged ones (extra spaces, missing colon, trailing period, one or two
+wrong letters in a long header).  Every header maps to a canonical kind through
+the data file ``ontology/lexicon/section_headers.yaml``.
+
+Synoptic checklists ("Histologic type: ...", "Margins: ...") are found both
+under a header and as a bare run of three or more known ``Key: value`` lines.
+
+Frozen-section and intraoperative diagnoses are preliminary; their headers map
+to kind ``"other"`` so they never decide a label.
+
+The result partitions the whole text: sections are sorted, contiguous and
+cover ``text[0:len(text)]``.  A stretch before the first header is ``"other"``
+(``"diagnosis"`` when the report has no header at all: a bare diagnosis).  A
+run of synoptic lines inside another section splits it; the text after the run
+continues the enclosing kind as a headerless section.  So does an inline note
+inside a diagnosis or addendum ("Comment: fragmented.", "Procedure: ..."): it
+takes its paragraph, then the diagnosis resumes (headerless), so that part B
+after a comment on part A is still read as diagnosis.
+
+>>> [(s.kind, s.header) for s in find_sections("GROSS: Two fragments.\\nDIAGNOSIS: Tubular adenoma.")]
+[('gross', 'GROSS'), ('diagnosis', 'DIAGNOSIS')]
+"""
+
+from __future__ import annotations
+
+import os
+import re
+from collections.abc import Iterable, Mapping
+from dataclasses import dataclass, field
+from functools import lru_cache
+from pathlib import Path
+from typing import Any
+
+import yaml
+from rapidfuzz import process
+from rapidfuzz.distance import Levenshtein
+
+from .errors import VocabError
+from .records import SECTION_KINDS, Section
+from .vocab import lexicon_path
+
+__all__ = [
+    "HEADER_FILE",
+    "HeaderLexicon",
+    "check_headers",
+    "default_lexicon",
+    "find_sections",
+    "for_matching",
+    "is_generic_key_line",
+    "is_part_label",
+    "iter_lines",
+    "normalise_phrase",
+]
+
+#: File name of the header lexicon under ``ontology/lexicon/``.
+HEADER_FILE = "section_headers.yaml"
+
+_TOP_KEYS = ("version", "headers", "synoptic_keys", "part_keywords", "cassette_headers")
+_REQUIRED_KEYS = ("headers", "synoptic_keys", "part_keywords")
+#: Synonyms this short need a colon ("Dx:") -- as bare words they occur in prose.
+_SHORT = 3
+#: Fuzzy (OCR) matching only for synonyms at least this long; distance cut-offs.
+_FUZZY_MIN = 8
+_FUZZY_LONG = 15
+_FUZZY_MAX_LINE = 64
+_FUZZY_CACHE = 4096
+_SPACE = re.compile(r"\s+")
+_SYNONYM_OK = re.compile(r"[a-z][a-z0-9 ()'&/.\-]*\Z")
+
+# -- regex structure (the words come from the lexicon) -----------------------
+# Every repeat is bounded, so no line can make a pattern backtrack for long.
+_DECOR = r"[ \t*=#~_>•·\-]{0,12}"
+_ENUM = r"(?:(?:\d{1,2}|(?-i:[IVX]{1,4}))[.)][ \t]{0,8})?"
+_KEY_LEAD = r"[ \t]{0,12}(?:(?:\d{1,2}[.)]|[\-*•·])[ \t]{0,8})?"
+_PARENS = r"(?:\([^()\n]{0,30}\)[ \t]{0,8})?"
+# After a header: an optional "(continued)", an optional number ("ADDENDUM 2"),
+# then the separator.  A dash only separates when a space follows it, so that
+# "--- Gross ---" stays decoration.
+_TAIL = re.compile(
+    r"[ \t]{0,8}(?:\([^()\n]{0,40}\)[ \t]{0,8})?"
+    r"(?P<num>(?:#|(?i:no)\.?)?[ \t]?\d{1,2}(?!\d)[ \t]{0,8})?"
+    r"(?P<sep>:|\.|[\-–—]{1,3}(?=[ \t])|)"
+)
+_TAIL_NO_NUM = re.compile(
+    r"[ \t]{0,8}(?:\([^()\n]{0,40}\)[ \t]{0,8})?(?P<num>)(?P<sep>:|\.|[\-–—]{1,3}(?=[ \t])|)"
+)
+_DECOR_END = re.compile(r"[ \t*=#~_>•·:;.!'\-]{0,40}$")
+_SPACES = re.compile(r"[ \t]*")
+_COLUMN_GAP = re.compile(r"(?:[ \t]{2,}|\t)[ \t]*(?=\S)")
+_GENERIC_KEY = re.compile(
+    _KEY_LEAD + r"[A-Za-z][A-Za-z0-9 /&,'+%\-]{0,50}" + _PARENS + r"[ \t]{0,8}:[ \t]{0,8}\S"
+)
+_FUZZY_LINE = re.compile(
+    _DECOR + _ENUM + r"(?P<w>[A-Za-z][A-Za-z &/'\-]{6,48}?)[ \t]{0,8}(?P<colon>:?)"
+    r"[ \t*=#~_>•·.\-]{0,12}$"
+)
+_BLANK = re.compile(r"[ \t]*$")
+_INDENTED = re.compile(r"[ \t]+\S")
+
+
+#: Unicode spaces read as a plain space (PDF and OCR exports are full of them).
+_ODD_SPACE = re.compile("[\x0b\x0c\xa0\u1680\u2000-\u200a\u202f\u205f\u3000]")
+_LONE_CR = re.compile(r"\r(?!\n)")
+
+
+def for_matching(text: str) -> str:
+    """The text as the patterns read it: same length, same offsets.
+
+    Unicode spaces become plain spaces and a lone carriage return (old Mac or
+    table exports) becomes a newline -- one character for one, so every
+    offset found in the result is an offset into the original text.
+
+    >>> for_matching("A.\\u00a0Colon\\rB. Rectum") == "A. Colon\\nB. Rectum"
+    True
+    """
+    if "\x0b" in text or "\x0c" in text or not text.isascii():
+        text = _ODD_SPACE.sub(" ", text)
+    if "\r" in text:
+        text = _LONE_CR.sub("\n", text)
+    return text
+
+
+def normalise_phrase(phrase: str) -> str:
+    """Lower-case a header or key and collapse its white space.
+
+    >>> normalise_phrase("  Clinical   HISTORY ")
+    'clinical history'
+    """
+    return _SPACE.sub(" ", phrase).strip().lower()
+
+
+def iter_lines(text: str, start: int = 0, end: int | None = None) -> Iterable[tuple[int, int, int]]:
+    """Yield ``(line_start, content_end, next_line_start)`` for the lines of a span.
+
+    ``content_end`` excludes the newline and a carriage return before it, so
+    CRLF reports read like LF ones.
+
+    >>> list(iter_lines("ab\\r\\ncd"))
+    [(0, 2, 4), (4, 6, 6)]
+    """
+    stop = len(text) if end is None else end
+    pos = start
+    while pos < stop:
+        nl = text.find("\n", pos, stop)
+        nxt = stop if nl < 0 else nl + 1
+        ce = stop if nl < 0 else nl
+        if ce > pos and text[ce - 1] == "\r":
+            ce -= 1
+        yield pos, ce, nxt
+        pos = nxt
+
+
+def _line_table(text: str) -> list[tuple[int, int, int]]:
+    """All lines of ``text`` as :func:`iter_lines` gives them, built in one split."""
+    out = []
+    pos = 0
+    stop = len(text)
+    for seg in text.split("\n"):
+        end = pos + len(seg)
+        ce = end - 1 if seg.endswith("\r") else end
+        nxt = min(end + 1, stop)
+        if pos < stop:
+            out.append((pos, ce, nxt))
+        pos = end + 1
+    return out
+
+
+def _trie_pattern(phrases: Iterable[str]) -> str:
+    """One regex alternation for many phrases, longest match first.
+
+    A character trie keeps the alternation fast (each line start costs one
+    walk down the trie) and greedy optional groups prefer the longest phrase
+    ("gross description" over "gross").  A space in a phrase matches one or
+    more spaces or tabs (OCR and typed reports add spaces).
+    """
+    trie: dict[str, Any] = {}
+    for phrase in phrases:
+        node = trie
+        for ch in phrase:
+            node = node.setdefault(ch, {})
+        node[""] = {}
+
+    def build(node: dict[str, Any]) -> str:
+        alts = []
+        for ch in sorted(k for k in node if k):
+            head = r"[ \t]{1,8}" if ch == " " else re.escape(ch)
+            alts.append(head + build(node[ch]))
+        if not alts:
+            return ""
+        if len(alts) == 1 and "" not in node:
+            return alts[0]
+        group = "(?:" + "|".join(alts) + ")"
+        return group + "?" if "" in node else group
+
+    return build(trie) if trie else "(?!)"
+
+
+@dataclass(frozen=True, slots=True)
+class _Hit:
+    """A header found on one line; the header is ``text[header_start:header_end]``."""
+
+    kind: str
+    header_start: int
+    header_end: int
+    line_start: int
+    body_start: int
+    ambiguous: bool  # also a synoptic key, written "Key: value" -- context decides
+
+
+@dataclass(frozen=True, eq=False)
+class HeaderLexicon:
+    """Section-header vocabulary: synonyms per kind, synoptic keys, part keywords.
+
+    ``headers`` maps a normalised synonym to its kind.  Build one with
+    :meth:`load` (checked data file) or directly from mappings in tests.
+
+    >>> lex = HeaderLexicon({"diagnosis": "diagnosis", "gross": "gross"}, ["margins"], ["part"])
+    >>> lex.kind_of("  DIAGNOSIS ")
+    'diagnosis'
+    """
+
+    headers: Mapping[str, str]
+    synoptic_keys: Iterable[str]
+    part_keywords: Iterable[str]
+    cassette_headers: Iterable[str] = ()
+    source: str = "<memory>"
+    _keys: frozenset[str] = field(init=False, repr=False)
+    _parts: tuple[str, ...] = field(init=False, repr=False)
+    _cassettes: frozenset[str] = field(init=False, repr=False)
+    _header_re: re.Pattern[str] = field(init=False, repr=False)
+    _key_re: re.Pattern[str] = field(init=False, repr=False)
+    _part_re: re.Pattern[str] = field(init=False, repr=False)
+    _part_line_re: re.Pattern[str] = field(init=False, repr=False)
+    _fuzzy: tuple[tuple[str, ...], tuple[str, ...]] = field(init=False, repr=False)
+    _fuzzy_cache: dict[str, str | None] = field(init=False, repr=False)
+
+    def __post_init__(self) -> None:
+        headers = {normalise_phrase(k): v for k, v in self.headers.items()}
+        for phrase, kind in headers.items():
+            if kind not in SECTION_KINDS:
+                raise VocabError(
+                    f"unknown section kind {kind!r} for header {phrase!r}; "
+                    f"use one of: {', '.join(SECTION_KINDS)}",
+                    path=self.source,
+                )
+        keys = frozenset(normalise_phrase(k) for k in self.synoptic_keys)
+        parts = tuple(normalise_phrase(k) for k in self.part_keywords)
+        put = object.__setattr__  # frozen: derived fields are set once, here
+        put(self, "headers", headers)
+        put(self, "_keys", keys)
+        put(self, "_parts", parts)
+        put(self, "_cassettes", frozenset(normalise_phrase(k) for k in self.cassette_headers))
+        put(
+            self,
+            "_header_re",
+            re.compile(
+                r"(?P<lead>" + _DECOR + _ENUM + r")(?P<h>" + _trie_pattern(headers) + ")",
+                re.IGNORECASE,
+            ),
+        )
+        put(
+            self,
+            "_key_re",
+            re.compile(
+                _KEY_LEAD + r"(?P<k>" + _trie_pattern(keys) + r")[ \t]{0,8}" + _PARENS + ":",
+                re.IGNORECASE,
+            ),
+        )
+        kw = _trie_pattern(parts)
+        part_body = (
+            r"[ \t]{0,12}(?:"
+            r"(?P<kw>(?i:" + kw + r"))[ \t]{0,4}(?:#|(?i:no)\.)?[ \t]{0,4}"
+            r"(?P<kl>[A-Za-z]|\d{1,2})(?![A-Za-z0-9])[ \t]{0,4}(?P<ksep>[:;.)]|[\-–—]{1,2}|)"
+            r"|\((?P<pl>[A-Z]|\d{1,2})\)(?P<psep>[:.]?)"
+            r"|(?P<bl>[A-Za-z]|\d{1,2})(?P<bsep>[.):])"
+            r")"
+        )
+        put(self, "_part_re", re.compile(part_body))
+        put(self, "_part_line_re", re.compile(r"^" + part_body, re.MULTILINE))
+        long_syn = sorted(p for p in headers if len(p) >= _FUZZY_MIN)
+        put(self, "_fuzzy", (tuple(long_syn), tuple(headers[p] for p in long_syn)))
+        put(self, "_fuzzy_cache", {})
+
+    # -- construction ---------------------------------------------------------
+    @classmethod
+    def load(cls, path: str | Path) -> HeaderLexicon:
+        """Read and check a header lexicon; raise :class:`VocabError` on the first problem."""
+        data, problems = _read_checked(Path(path))
+        if problems:
+            where, line, msg = problems[0]
+            more = f" (and {len(problems) - 1} more problem(s))" if len(problems) > 1 else ""
+            raise VocabError(msg + more, path=where, line=line)
+        assert data is not None
+        headers = {syn: kind for kind, syns in data["headers"].items() for syn in syns or ()}
+        return cls(
+            headers,
+            data["synoptic_keys"],
+            data["part_keywords"],
+            data.get("cassette_headers") or (),
+            source=str(path),
+        )
+
+    # -- queries --------------------------------------------------------------
+    def kind_of(self, phrase: str) -> str | None:
+        """Kind of a header phrase (exact synonym after normalising), or None."""
+        return self.headers.get(normalise_phrase(phrase))
+
+    def is_synoptic_key(self, phrase: str) -> bool:
+        return normalise_phrase(phrase) in self._keys
+
+    def is_cassette_header(self, phrase: str) -> bool:
+        return normalise_phrase(phrase) in self._cassettes
+
+    @property
+    def part_pattern(self) -> re.Pattern[str]:
+        """Compiled part-label pattern, matched at a line start (used by ``parts``)."""
+        return self._part_re
+
+    @property
+    def part_line_pattern(self) -> re.Pattern[str]:
+        """The part-label pattern anchored at every line start (for ``finditer``)."""
+        return self._part_line_re
+
+    # -- line classification -------------------------------------------------
+    def classify(
+        self, text: str, lines: list[tuple[int, int, int]]
+    ) -> tuple[list[_Hit | None], list[bool]]:
+        """Header hit and known-synoptic-key flag of every line (one pass)."""
+        header_match = self._header_re.match
+        key_match = self._key_re.match
+        exact = self._exact
+        fuzzy = self._fuzzy_at
+        find = text.find
+        hits: list[_Hit | None] = []
+        keys: list[bool] = []
+        for ls, le, nxt in lines:
+            if le == ls:
+                hits.append(None)
+                keys.append(False)
+                continue
+            hit = None
+            m = header_match(text, ls, le)
+            if m is not None:
+                hit = exact(text, m, ls, le, nxt)
+            if hit is None and _FUZZY_MIN <= le - ls <= _FUZZY_MAX_LINE:
+                hit = fuzzy(text, ls, le, nxt)
+            hits.append(hit)
+            if hit is not None:
+                keys.append(hit.ambiguous)
+            else:  # a key line needs a colon: skip the regex on the rest
+                keys.append(find(":", ls, le) >= 0 and key_match(text, ls, le) is not None)
+        return hits, keys
+
+    def _exact(self, text: str, m: re.Match[str], ls: int, le: int, nxt: int) -> _Hit | None:
+        header = m.group("h")
+        phrase = normalise_phrase(header)
+        kind = self.headers.get(phrase)
+        if kind is None:  # the trie matched a prefix that is not itself a synonym
+            return None
+        hs = m.start("h")
+        h_end = m.end("h")
+        decorated = bool(m.group("lead").strip())
+        tail_re = _TAIL_NO_NUM if phrase in self._parts else _TAIL
+        t = tail_re.match(text, h_end, le)
+        assert t is not None  # every part of the tail is optional
+        sep = t.group("sep")
+        after = t.end()
+        first_upper = header[:1].isupper()
+        all_caps = header.upper() == header
+        short = len(phrase.replace(" ", "")) <= _SHORT
+        if _DECOR_END.match(text, after, le):
+            # Alone on its line (perhaps with a colon, period or decoration).
+            if sep == ":" or (not short and (first_upper or decorated)):
+                return _Hit(kind, hs, h_end, ls, nxt, False)
+            return None
+        if short and sep != ":":
+            return None
+        if sep == ":":
+            body = _SPACES.match(text, after, le)
+            assert body is not None
+            # "Procedure: Sigmoidectomy" may be a checklist line: context decides.
+            return _Hit(kind, hs, h_end, ls, body.end(), phrase in self._keys)
+        if sep and sep[0] in "-–—" and first_upper and not t.group("num"):
+            body = _SPACES.match(text, after, le)
+            assert body is not None
+            return _Hit(kind, hs, h_end, ls, body.end(), False)
+        if all_caps and not t.group("num"):
+            # "DIAGNOSISTubular adenoma": OCR dropped the colon and the space.
+            if (
+                h_end + 1 < le
+                and text[h_end].isupper()
+                and text[h_end + 1].islower()
+                and len(phrase) >= 4
+            ):
+                return _Hit(kind, hs, h_end, ls, h_end, False)
+            # "GROSS      Received in formalin": column layout.
+            gap = _COLUMN_GAP.match(text, h_end, le)
+            if gap is not None:
+                return _Hit(kind, hs, h_end, ls, gap.end(), False)
+        return None
+
+    def _fuzzy_at(self, text: str, ls: int, le: int, nxt: int) -> _Hit | None:
+        """A header line with one or two OCR errors ("GROSS DESCRIPTOIN").
+
+        Only header-shaped lines are tried: mostly capitals, Title Case, or a
+        trailing colon; sentence-case prose ("Tubular adenoma.") is not.
+        """
+        syns, _ = self._fuzzy
+        if not syns:
+            return None
+        m = _FUZZY_LINE.match(text, ls, le)
+        if m is None:
+            return None
+        raw = m.group("w").rstrip(" -")
+        if not (m.group("colon") or _header_shaped(raw)):
+            return None
+        query = normalise_phrase(raw)
+        if len(query) < _FUZZY_MIN or query.count(" ") > 4:
+            return None
+        cache = self._fuzzy_cache
+        if query in cache:
+            kind = cache[query]
+        else:
+            if len(cache) >= _FUZZY_CACHE:
+                cache.clear()  # bounded memory on long runs over unique OCR lines
+            kind = cache[query] = self._nearest_kind(query)
+        if kind is None:
+            return None
+        hs = m.start("w")
+        return _Hit(kind, hs, hs + len(raw), ls, nxt, False)
+
+    def _nearest_kind(self, query: str) -> str | None:
+        syns, kinds = self._fuzzy
+        cutoff = 2 if len(query) >= _FUZZY_LONG else 1
+        found = process.extract(
+            query, syns, scorer=Levenshtein.distance, score_cutoff=cutoff, limit=4
+        )
+        if not found:
+            return None
+        best = min(score for _, score, _ in found)
+        best_kinds = {kinds[i] for _, score, i in found if score == best}
+        if len(best_kinds) != 1:
+            return None  # as close to two kinds: do not guess
+        return best_kinds.pop()
+
+    def is_key_line(self, text: str, ls: int, le: int) -> bool:
+        return self._key_re.match(text, ls, le) is not None
+
+
+# -- the data file ------------------------------------------------------------
+def _line(node: yaml.Node) -> int:
+    return int(node.start_mark.line) + 1
+
+
+def _read_checked(path: Path) -> tuple[dict[str, Any] | None, list[tuple[str, int | None, str]]]:
+    """Parse the lexicon keeping line numbers; return (data, problems)."""
+    where = str(path)
+    try:
+        raw = path.read_text(encoding="utf-8")
+    except (OSError, UnicodeDecodeError) as exc:
+        return None, [(where, None, f"cannot read header lexicon: {exc}; check the path")]
+    try:
+        root = yaml.compose(raw, Loader=yaml.SafeLoader)
+    except yaml.YAMLError as exc:
+        mark = getattr(exc, "problem_mark", None)
+        line = int(mark.line) + 1 if mark is not None else None
+        problem = getattr(exc, "problem", None) or str(exc)
+        return None, [(where, line, f"not valid YAML: {problem}; fix the syntax")]
+    problems: list[tuple[str, int | None, str]] = []
+
+    def add(node: yaml.Node | None, msg: str) -> None:
+        problems.append((where, _line(node) if node is not None else None, msg))
+
+    if not isinstance(root, yaml.MappingNode):
+        add(root, "the header lexicon must be a mapping with keys " + ", ".join(_REQUIRED_KEYS))
+        return None, problems
+    top: dict[str, yaml.Node] = {}
+    for knode, vnode in root.value:
+        key = str(knode.value)
+        if key not in _TOP_KEYS:
+            add(knode, f"unknown top-level key {key!r}; expected one of {', '.join(_TOP_KEYS)}")
+        top[key] = vnode
+    for key in _REQUIRED_KEYS:
+        if key not in top:
+            add(root, f"missing top-level key {key!r}; add it (a list or mapping)")
+    vnode = top.get("version")
+    if vnode is not None and str(vnode.value) != "1":
+        add(vnode, f"unsupported lexicon version {vnode.value!r}; this pathsieve reads version 1")
+
+    headers: dict[str, list[str]] = {}
+    seen: dict[str, tuple[str, int]] = {}
+    hnode = top.get("headers")
+    if hnode is not None and not isinstance(hnode, yaml.MappingNode):
+        add(hnode, "'headers' must map each section kind to a list of synonyms")
+    elif hnode is not None:
+        for knode, vnode in hnode.value:
+            kind = str(knode.value)
+            if kind not in SECTION_KINDS:
+                add(knode, f"unknown section kind {kind!r}; use one of: {', '.join(SECTION_KINDS)}")
+            syns = headers.setdefault(kind, [])
+            for item in _list_items(vnode, f"headers.{kind}", add):
+                phrase = normalise_phrase(str(item.value))
+                bad = _bad_phrase(phrase)
+                if bad:
+                    add(item, f"header synonym {item.value!r} {bad}")
+                    continue
+                if phrase in seen:
+                    other_kind, other_line = seen[phrase]
+                    if other_kind == kind:
+                        add(
+                            item,
+                            f"header synonym {phrase!r} listed twice under {kind} (first at line {other_line}); delete one",
+                        )
+                    else:
+                        add(
+                            item,
+                            f"header synonym {phrase!r} listed under both {other_kind} (line {other_line}) and {kind}; keep it under one kind",
+                        )
+                    continue
+                seen[phrase] = (kind, _line(item))
+                syns.append(phrase)
+
+    lists: dict[str, list[str]] = {}
+    for key in ("synoptic_keys", "part_keywords", "cassette_headers"):
+        node = top.get(key)
+        values: list[str] = []
+        first: dict[str, int] = {}
+        if node is not None:
+            for item in _list_items(node, key, add):
+                phrase = normalise_phrase(str(item.value))
+                bad = _bad_phrase(phrase)
+                if bad:
+                    add(item, f"{key} entry {item.value!r} {bad}")
+                    continue
+                if key == "part_keywords" and not phrase.isalpha():
+                    add(item, f"part keyword {item.value!r} must be one word of letters")
+                    continue
+                if phrase in first:
+                    add(
+                        item,
+                        f"{key} entry {phrase!r} listed twice (first at line {first[phrase]}); delete one",
+                    )
+                    continue
+                if key == "cassette_headers" and seen.get(phrase, ("", 0))[0] != "gross":
+                    add(
+                        item,
+                        f"cassette header {phrase!r} is not a gross header synonym; add it under headers.gross",
+                    )
+                    continue
+                first[phrase] = _line(item)
+                values.append(phrase)
+        lists[key] = values
+    if problems:
+        problems.sort(key=lambda p: p[1] or 0)  # in file order
+        return None, problems
+    data: dict[str, Any] = {"headers": headers, **lists}
+    return data, problems
+
+
+def _list_items(node: yaml.Node, name: str, add: Any) -> list[yaml.ScalarNode]:
+    if isinstance(node, yaml.ScalarNode) and node.value in ("", "~", "null"):
+        return []
+    if not isinstance(node, yaml.SequenceNode):
+        add(node, f"{name!r} must be a list of strings")
+        return []
+    out = []
+    for item in node.value:
+        if not isinstance(item, yaml.ScalarNode):
+            add(item, f"entries of {name!r} must be plain strings, not lists or mappings")
+            continue
+        out.append(item)
+    return out
+
+
+def _bad_phrase(phrase: str) -> str:
+    if not phrase:
+        return "is empty; delete it"
+    if len(phrase) > 60:
+        return "is longer than 60 characters; shorten it"
+    if ":" in phrase:
+        return "contains a colon; write the header without it"
+    if not _SYNONYM_OK.match(phrase):
+        return "must start with a letter and use letters, digits, spaces and ()'&/.- only"
+    return ""
+
+
+def check_headers(path: str | Path) -> list[str]:
+    """Problems in a header lexicon, as ``"file:line: message"`` strings ([] when fine).
+
+    >>> check_headers(lexicon_path(HEADER_FILE))
+    []
+    """
+    _, problems = _read_checked(Path(path))
+    out = []
+    for where, line, msg in problems:
+        out.append(f"{where}:{line}: {msg}" if line is not None else f"{where}: {msg}")
+    return out
+
+
+@lru_cache(maxsize=8)
+def _cached(vocab_env: str | None) -> HeaderLexicon:
+    path = lexicon_path(HEADER_FILE)
+    if not path.exists():
+        raise VocabError(
+            "header lexicon not found; set PATHSIEVE_VOCAB to the ontology folder",
+            path=path,
+        )
+    return HeaderLexicon.load(path)
+
+
+def default_lexicon() -> HeaderLexicon:
+    """The shipped lexicon (or the one under ``PATHSIEVE_VOCAB``), loaded once per folder.
+
+    Call ``default_lexicon.cache_clear()`` after editing the file in a running process.
+    """
+    return _cached(os.environ.get("PATHSIEVE_VOCAB"))
+
+
+default_lexicon.cache_clear = _cached.cache_clear  # type: ignore[attr-defined]
+
+
+# -- the sectioner --------------------------------------------------------------
+#: Sections that an inline note ("Comment: ...") may interrupt without ending them,
+#: and the kinds of such notes.
+_PARENTS = frozenset({"diagnosis", "addendum"})
+_EMBEDDED = frozenset({"comment", "other", "microscopic", "clinical_history"})
+#: A bare run needs this many known synoptic keys; gaps it tolerates between keys.
+_MIN_KEYS = 3
+_MAX_BLANK = 1
+_MAX_PROSE = 2
+
+
+def find_sections(text: str, *, lexicon: HeaderLexicon | None = None) -> list[Section]:
+    """Sections of a report, sorted, contiguous and covering the whole text.
+
+    >>> t = "Clinical History: polyp\\nFINAL DIAGNOSIS\\nTubular adenoma.\\n"
+    >>> [(s.kind, t[s.start:s.body_start]) for s in find_sections(t)]
+    [('clinical_history', 'Clinical History: '), ('diagnosis', 'FINAL DIAGNOSIS\\n')]
+    """
+    if not text:
+        return []
+    lex = lexicon if lexicon is not None else default_lexicon()
+    scan = for_matching(text)
+    lines = _line_table(scan)
+    hits, keys = lex.classify(scan, lines)
+    runs = _synoptic_runs(scan, lines, hits, keys, lex) if sum(keys) >= _MIN_KEYS else []
+
+    # Sweep lines in order: headers open sections; a bare synoptic run opens a
+    # synoptic section (unless already in one) and hands back to the
+    # enclosing kind after it.
+    opened: list[tuple[str, str, int, int]] = []  # kind, header, start, body_start
+    real_headers = 0
+    cur = ""
+    run_at = {first: last for first, last in runs}
+    i = 0
+    n = len(lines)
+    while i < n:
+        hit = hits[i]
+        last = run_at.get(i)
+        if last is not None:
+            if cur != "synoptic":
+                ls = lines[i][0]
+                opened.append(("synoptic", "", ls, ls))
+                after = lines[last][2]
+                if after < len(text):
+                    opened.append((cur or "", "", after, after))
+            i = last + 1
+            continue
+        if hit is not None and not (hit.ambiguous and cur == "synoptic"):
+            header = text[hit.header_start : hit.header_end]  # as in the original
+            opened.append((hit.kind, header, hit.line_start, hit.body_start))
+            real_headers += 1
+            if cur in _PARENTS and hit.kind in _EMBEDDED and hit.body_start < lines[i][1]:
+                # "Comment: fragmented." inside a diagnosis: a note, not the end
+                # of the diagnosis -- the diagnosis resumes after its paragraph.
+                # A field such as "Specimen: sigmoid colon" takes its line only.
+                last = (
+                    i if hit.kind == "other" else _paragraph_end(scan, lines, hits, run_at, i, lex)
+                )
+                opened.append((cur, "", lines[last][2], lines[last][2]))
+                i = last + 1
+                continue
+            cur = hit.kind
+        i += 1
+
+    lead_kind = "other" if real_headers else "diagnosis"
+    fixed = [(k or lead_kind, h, s, b) for k, h, s, b in opened]
+    if not fixed or fixed[0][2] > 0:
+        fixed.insert(0, (lead_kind, "", 0, 0))
+    sections: list[Section] = []
+    for j, (kind, header, start, body) in enumerate(fixed):
+        end = fixed[j + 1][2] if j + 1 < len(fixed) else len(text)
+        if end <= start:
+            continue
+        if not header and sections and start > 0 and not text[start:end].strip():
+            # White space left after a synoptic run or a note: give it to that.
+            prev = sections[-1]
+            sections[-1] = Section(prev.kind, prev.header, prev.start, end, prev.body_start)
+            continue
+        sections.append(Section(kind, header, start, end, min(body, end)))
+    return sections
+
+
+def _paragraph_end(
+    text: str,
+    lines: list[tuple[int, int, int]],
+    hits: list[_Hit | None],
+    run_at: dict[int, int],
+    i: int,
+    lex: HeaderLexicon,
+) -> int:
+    """Last line of the paragraph that starts at line ``i``.
+
+    A paragraph ends before a blank line, a header, a synoptic run or a
+    specimen-part label.
+    """
+    part_match = lex.part_pattern.match
+    j = i + 1
+    n = len(lines)
+    while j < n:
+        ls, le, _ = lines[j]
+        if hits[j] is not None or j in run_at or _BLANK.match(text, ls, le):
+            break
+        pm = part_match(text, ls, le)
+        if pm is not None and is_part_label(text, pm, le):
+            break
+        j += 1
+    return j - 1
+
+
+def _synoptic_runs(
+    text: str,
+    lines: list[tuple[int, int, int]],
+    hits: list[_Hit | None],
+    keys: list[bool],
+    lex: HeaderLexicon,
+) -> list[tuple[int, int]]:
+    """Runs of synoptic ``Key: value`` lines, as (first, last) line indexes.
+
+    A run starts at a known key and goes on over known keys, other
+    ``Key: value`` lines, one blank line or up to two wrapped-value lines at a
+    time; a real header or a specimen-part line ends it.  It ends at its last
+    key line (plus indented continuation lines) and counts when it holds at
+    least three known keys.  Linear: a failed run resumes after its end.
+    """
+    part_re = lex.part_pattern
+    n = len(lines)
+
+    known = keys.__getitem__
+    runs: list[tuple[int, int]] = []
+    i = 0
+    while i < n:
+        if not known(i):
+            i += 1
+            continue
+        first = last = i
+        count = 1
+        blanks = prose = 0
+        j = i + 1
+        while j < n:
+            ls, le, _ = lines[j]
+            h = hits[j]
+            if h is not None and not h.ambiguous:
+                break
+            if known(j):
+                count += 1
+                last = j
+                blanks = prose = 0
+            elif _BLANK.match(text, ls, le):
+                blanks += 1
+                if blanks > _MAX_BLANK:
+                    break
+            elif _GENERIC_KEY.match(text, ls, le):
+                last = j
+                blanks = prose = 0
+            else:
+                pm = part_re.match(text, ls, le)
+                if pm is not None and is_part_label(text, pm, le):
+                    break
+                prose += 1
+                if prose > _MAX_PROSE:
+                    break
+            j += 1
+        if count >= _MIN_KEYS:
+            # Keep indented continuation lines of the last value.
+            k = last + 1
+            while k < n and hits[k] is None and _INDENTED.match(text, lines[k][0], lines[k][1]):
+                k += 1
+            runs.append((first, k - 1))
+            i = k
+        else:
+            i = max(j, i + 1)
+    return runs
+
+
+def _header_shaped(raw: str) -> bool:
+    """Mostly capitals ("FINAL DIAGNOSlS") or every long word capitalised."""
+    if raw.isupper():
+        return True
+    if sum(map(str.islower, raw)) * 5 <= sum(map(str.isupper, raw)):
+        return True
+    return all(w[:1].isupper() for w in raw.split() if len(w) > 3)
+
+
+def is_generic_key_line(text: str, ls: int, le: int) -> bool:
+    """Whether ``text[ls:le]`` looks like a ``Key: value`` line (any key)."""
+    return _GENERIC_KEY.match(text, ls, le) is not None
+
+
+def is_part_label(text: str, m: re.Match[str], le: int) -> bool:
+    """Whether a :attr:`HeaderLexicon.part_pattern` match is a real label.
+
+    A bare label ("A.", "(B)", "1)") must be followed by a space or the line
+    end ("1.5 cm" and "A.M." are not labels) -- or, after a dot, by a word
+    ("1.LUNG", "A.Right ovary"); a keyword label needs a separator or a space
+    after it ("Specimen A is received", "Part 2:", OCR "PART 1;").
+    """
+    if m.group("kw") is not None:
+        if m.group("ksep"):
+            return True
+        end = m.end("kl")
+    else:
+        end = m.end()
+    if end >= le or text[end] in " \t":
+        return True
+    # "1.LUNG, RIGHT LOWER LOBE", "A.Right ovary": OCR dropped the space after
+    # the label.  Two letters must follow, so "A.M." stays an abbreviation.
+    nxt = text[end : end + 2]
+    return (
+        m.group("bl") is not None
+        and m.group("bsep") == "."
+        and len(nxt) == 2
+        and nxt[0].isupper()
+        and nxt[1].isalpha()
+    )
