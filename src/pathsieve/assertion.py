@@ -1,0 +1,627 @@
+"""Graded assertion of concept mentions: certainty, temporality, experiencer.
+
+A ConText-style engine (Harkema et al., J Biomed Inform 2009, itself built on
+NegEx, Chapman et al. 2001).  Trigger phrases come from a data file
+(``ontology/lexicon/triggers.tsv``); each trigger has a category, a direction
+(forward, backward, both) and a maximum scope in words.  For each mention the
+engine looks, inside the mention's sentence, for triggers whose scope reaches
+the mention without crossing a terminator, and keeps the *nearest* one on each
+of three axes:
+
+* certainty: ``absent``, ``unlikely``, ``uncertain``, ``likely`` (default
+  ``present``);
+* temporality: ``historical``, ``hypothetical`` (default ``current``);
+* experiencer: ``other`` (default ``patient``).
+
+Nearest-wins is what lets one sentence carry several findings with different
+certainties ("no carcinoma; possible dysplasia"), and what lets a compound
+trigger decide the grade: the longer phrase "no definite" (unlikely) hides the
+"no" (absent) inside it, "cannot rule out" (uncertain) hides "rule out".
+
+Control categories in the lexicon:
+
+* ``pseudo``: phrases that look like triggers but are not ("no change",
+  "gram negative"); a trigger inside one is dropped;
+* ``terminate``: phrases that end a scope ("but", "however", "except") for
+  the categories or axes named in the fifth column (``*`` = all);
+* ``break``: phrases that end a sentence (";");
+* ``abbreviation``: words whose final period does not end a sentence.
+
+Everything runs on the original text with compiled regular expressions and a
+first-word index of the triggers, and only on the sentences that hold mentions.
+
+>>> engine = AssertionEngine.load()
+>>> text = "Tubular adenoma; negative for high-grade dysplasia."
+>>> [a.certainty for a in engine.assess(text, [(0, 15), (30, 50)])]
+['present', 'absent']
+"""
+
+from __future__ import annotations
+
+import re
+import threading
+from bisect import bisect_left, bisect_right
+from collections.abc import Iterable, Sequence
+from dataclasses import dataclass
+from pathlib import Path
+
+from pathsieve.errors import InputError, VocabError
+from pathsieve.records import Assertion, TriggerHit
+from pathsieve.vocab import lexicon_path
+
+__all__ = [
+    "AXIS_OF",
+    "CONTROL_CATEGORIES",
+    "DIRECTIONS",
+    "AssertionEngine",
+    "Trigger",
+    "check_triggers",
+    "default_triggers_path",
+    "parse_triggers",
+]
+
+#: Which assertion axis each acting category sets (the value is the category).
+AXIS_OF: dict[str, str] = {
+    "absent": "certainty",
+    "unlikely": "certainty",
+    "uncertain": "certainty",
+    "likely": "certainty",
+    "historical": "temporality",
+    "hypothetical": "temporality",
+    "other": "experiencer",
+}
+AXES: tuple[str, ...] = ("certainty", "temporality", "experiencer")
+CONTROL_CATEGORIES: tuple[str, ...] = ("pseudo", "terminate", "break", "abbreviation")
+DIRECTIONS: tuple[str, ...] = ("forward", "backward", "both")
+# When two triggers of one axis are equally near, the more guarded reading wins:
+# a hedge next to a negation ("no ... cannot be excluded") is not a plain negation.
+_TIE_RANK = {
+    "uncertain": 0,
+    "unlikely": 1,
+    "likely": 2,
+    "absent": 3,
+    "hypothetical": 0,
+    "historical": 1,
+    "other": 0,
+}
+_NO_VALUE = ("", "-")
+_match_start = re.Match.start
+_match_end = re.Match.end
+_OPEN = frozenset("([{")
+_CLOSE = frozenset(")]}")
+_BRACKET_RE = re.compile(r"[()\[\]{}]")
+
+_TOKEN_RE = re.compile(r"\w+|[^\w\s]")
+# Candidate sentence ends and list/heading starts, as three simple patterns
+# (one alternation of all of them scans several times slower).  Periods are
+# checked in Python (abbreviations, a following lowercase word).
+# A sentence stop: "." or "!" followed by a space and not by a lowercase word
+# ("p.o. intake", "vs. an": the sentence goes on); "?" only at a line end ("?
+# carcinoma" is a hedge, not a question).  The engine adds one look-behind per
+# lexicon abbreviation ("Dr.", "e.g."), after the stop so the fast scan for
+# [.!?] is kept.
+_STOP_HEAD = r"[.!?](?=\s|$)(?:(?<=\?)(?=[ \t]*(?:\r?\n|$))|(?<!\?)(?![ \t]*[a-z])"
+_LINE_RE = re.compile(
+    r"\n(?:"
+    r"[ \t\r\f\v]*\n"  # a blank line
+    # a list marker at the start of a line: "- ", "* ", "1. ", "2) ", "(a) ", "B. "
+    r"|[ \t]*(?=(?:[-*\u2022\u00b7]|\(?\d{1,3}[.)]|\(?[A-Za-z][.)])[ \t])"
+    # a heading at the start of a line: "MICROSCOPIC DESCRIPTION:"
+    r"|(?P<head>[ \t]*(?=[A-Z][A-Za-z /&()-]{0,40}:))"
+    r")"
+)
+# In text whose line breaks were flattened to runs of spaces: a numbered item
+# ("Normal esophagus   2) Hiatal hernia") or a heading ("...   PLAN:  ").
+_FLAT_RE = re.compile(
+    r"  +(?:"
+    r"(?=\(?\d{1,2}\)[ \t])"
+    r"|(?P<head>(?=[A-Z][A-Za-z/&()-]*(?: [A-Za-z/&()-]+){0,4}:(?:\s|$)))"
+    r")"
+)
+
+
+@dataclass(frozen=True, slots=True)
+class Trigger:
+    """One row of the trigger lexicon.
+
+    ``scope`` is the largest number of words allowed between the trigger and
+    the mention (``None``: up to the end of the sentence).  ``applies`` names
+    the categories a ``terminate`` row cuts (empty for other rows).
+    """
+
+    phrase: str
+    tokens: tuple[str, ...]
+    category: str
+    direction: str = ""
+    scope: int | None = None
+    applies: frozenset[str] = frozenset()
+    line: int = 0
+
+    @property
+    def axis(self) -> str | None:
+        return AXIS_OF.get(self.category)
+
+
+def default_triggers_path() -> Path:
+    """The shipped trigger lexicon (``ontology/lexicon/triggers.tsv``)."""
+    return lexicon_path("triggers.tsv")
+
+
+def _tokens(phrase: str) -> tuple[str, ...]:
+    return tuple(t.lower() for t in _TOKEN_RE.findall(phrase))
+
+
+def _expand_applies(value: str) -> frozenset[str] | None:
+    names: set[str] = set()
+    for item in (v.strip() for v in value.split(",")):
+        if item == "*":
+            names.update(AXIS_OF)
+        elif item in AXES:
+            names.update(c for c, a in AXIS_OF.items() if a == item)
+        elif item in AXIS_OF:
+            names.add(item)
+        else:
+            return None
+    return frozenset(names)
+
+
+def parse_triggers(path: str | Path) -> tuple[list[Trigger], list[str]]:
+    """Read a trigger lexicon; return the valid rows and the problems found.
+
+    Each problem reads ``"file:line: message"``.  Columns, tab-separated:
+    phrase, category, direction, scope (words, ``-`` for the whole sentence),
+    applies (``terminate`` rows only: categories or axes, ``*`` for all).
+    """
+    path = Path(path)
+    try:
+        raw = path.read_text(encoding="utf-8")
+    except (OSError, UnicodeDecodeError) as exc:
+        return [], [f"{path}: cannot read trigger lexicon ({exc}); check the path and encoding"]
+    rows: list[Trigger] = []
+    problems: list[str] = []
+    seen: dict[tuple[tuple[str, ...], str], int] = {}
+    seen_axis: dict[tuple[tuple[str, ...], str], tuple[str, int]] = {}
+    known = ", ".join((*AXIS_OF, *CONTROL_CATEGORIES))
+
+    for lineno, line in enumerate(raw.splitlines(), start=1):
+        if not line.strip() or line.lstrip().startswith("#"):
+            continue
+
+        def bad(message: str, lineno: int = lineno) -> None:
+            problems.append(f"{path}:{lineno}: {message}")
+
+        cols = [c.strip() for c in line.split("\t")]
+        while len(cols) > 2 and cols[-1] == "":
+            cols.pop()
+        if len(cols) < 2 or len(cols) > 5:
+            bad(
+                f"expected 2 to 5 tab-separated columns (phrase, category, direction, "
+                f"scope, applies), found {len(cols)}"
+            )
+            continue
+        cols += [""] * (5 - len(cols))
+        phrase, category, direction, scope_text, applies_text = cols
+        if category not in AXIS_OF and category not in CONTROL_CATEGORIES:
+            bad(f"unknown category {category!r}; use one of: {known}")
+            continue
+        if category == "abbreviation":
+            tokens: tuple[str, ...] = (phrase.lower().rstrip("."),)
+            if not tokens[0] or any(ch.isspace() for ch in tokens[0]):
+                bad(f"abbreviation must be one word, got {phrase!r}")
+                continue
+        else:
+            tokens = _tokens(phrase)
+        if not phrase or not tokens or not tokens[0]:
+            bad("empty trigger phrase")
+            continue
+
+        scope: int | None = None
+        applies: frozenset[str] = frozenset()
+        if category in AXIS_OF:
+            if direction not in DIRECTIONS:
+                bad(f"bad direction {direction!r} for {phrase!r}; use forward, backward or both")
+                continue
+            if scope_text not in _NO_VALUE:
+                if not scope_text.isdigit():
+                    bad(f"bad scope {scope_text!r} for {phrase!r}; use a word count or '-'")
+                    continue
+                scope = int(scope_text)
+            if applies_text not in _NO_VALUE:
+                bad(f"the fifth column is only for terminate rows, found {applies_text!r}")
+                continue
+        else:
+            if direction not in _NO_VALUE or scope_text not in _NO_VALUE:
+                bad(f"{category} rows take no direction or scope; put '-' in those columns")
+                continue
+            if category == "terminate":
+                parsed = _expand_applies(applies_text or "*")
+                if parsed is None:
+                    bad(
+                        f"bad applies {applies_text!r} for {phrase!r}; use '*', an axis "
+                        f"({', '.join(AXES)}) or categories, comma-separated"
+                    )
+                    continue
+                applies = parsed
+            elif applies_text not in _NO_VALUE:
+                bad(f"the fifth column is only for terminate rows, found {applies_text!r}")
+                continue
+
+        key = (tokens, category)
+        if key in seen:
+            bad(f"duplicate trigger {phrase!r} ({category}), first at line {seen[key]}")
+            continue
+        seen[key] = lineno
+        axis = AXIS_OF.get(category)
+        if axis is not None:
+            other = seen_axis.get((tokens, axis))
+            if other is not None:
+                bad(
+                    f"conflicting trigger {phrase!r}: {category} here, {other[0]} at line "
+                    f"{other[1]}; one phrase gets one {axis} category"
+                )
+                continue
+            seen_axis[(tokens, axis)] = (category, lineno)
+        rows.append(Trigger(phrase, tokens, category, direction, scope, applies, lineno))
+    if not any(r.axis for r in rows) and not problems:
+        problems.append(f"{path}:1: no assertion triggers in the lexicon")
+    return rows, problems
+
+
+def check_triggers(path: str | Path) -> list[str]:
+    """Problems in a trigger lexicon as ``"file:line: message"`` (empty: fine).
+
+    >>> check_triggers(default_triggers_path())
+    []
+    """
+    return parse_triggers(path)[1]
+
+
+# A trigger compiled for the hot path (plain tuples: no attribute look-ups):
+# (axis index or -1, direction bits, scope, tie rank, applies, trigger)
+_FORWARD, _BACKWARD = 1, 2
+_DIRECTION_BITS = {"forward": _FORWARD, "backward": _BACKWARD, "both": _FORWARD | _BACKWARD}
+_UNLIMITED = 1 << 30
+_AXIS_INDEX = {axis: i for i, axis in enumerate(AXES)}
+_Spec = tuple[int, int, int, int, frozenset[str], Trigger]
+# A match: (first token, token after the last, spec)
+_Hit = tuple[int, int, _Spec]
+
+
+def _spec(t: Trigger) -> _Spec:
+    axis = t.axis
+    return (
+        _AXIS_INDEX[axis] if axis is not None else -1,
+        _DIRECTION_BITS.get(t.direction, 0),
+        _UNLIMITED if t.scope is None else t.scope,
+        _TIE_RANK.get(t.category, 9),
+        t.applies,
+        t,
+    )
+
+
+def _drop_covered(matches: list[_Hit]) -> list[_Hit]:
+    """Longest phrase wins: drop a match inside a longer one, or starting inside a pseudo."""
+    keep: list[_Hit] = []
+    for m in matches:
+        ms, me = m[0], m[1]
+        for o in matches:
+            os_, oe = o[0], o[1]
+            if o is m or oe <= ms or os_ >= me:
+                continue
+            if os_ <= ms and me <= oe and oe - os_ > me - ms:
+                break  # inside a longer phrase
+            if o[2][5].category == "pseudo" and os_ <= ms and not (ms <= os_ and oe <= me):
+                break  # starts inside a pseudo-trigger
+        else:
+            keep.append(m)
+    return keep
+
+
+class _Sentence:
+    """The tokens of one sentence and the triggers found in them.
+
+    Tokens come from one C-level ``findall`` over the lower-cased text; their
+    character offsets are computed only when a trigger is reported.
+    """
+
+    __slots__ = ("acting", "depth", "ends", "hi", "lo", "low", "punct", "starts", "terminators")
+
+    def __init__(self, index: _Index, low: str, lo: int, hi: int) -> None:
+        self.low = low
+        self.lo = lo
+        self.hi = hi
+        self.punct: list[int] = []
+        self.starts: list[int] | None = None  # token offsets, computed on first use
+        self.ends: list[int] | None = None
+        self.depth: list[int] | None = None
+        self.terminators: list[tuple[int, int, frozenset[str]]] = []
+        toks = _TOKEN_RE.findall(low, lo, hi)
+        matches: list[_Hit] = []
+        last = len(toks) - 1
+        for i, tok in enumerate(toks):
+            entry = index.get(tok)
+            if entry is None:
+                continue
+            single, longer = entry
+            for sp in single:
+                matches.append((i, i + 1, sp))
+            if longer and i < last:
+                cands = longer.get(toks[i + 1])
+                if cands is not None:
+                    for ptoks, k, specs in cands:
+                        if k == 2 or toks[i : i + k] == ptoks:
+                            for sp in specs:
+                                matches.append((i, i + k, sp))
+        if len(matches) > 1:
+            matches = _drop_covered(matches)
+        self.acting = [m for m in matches if m[2][0] >= 0]
+        if not self.acting:
+            return
+        self.terminators = [
+            (m[0], m[1], m[2][4]) for m in matches if m[2][5].category == "terminate"
+        ]
+        # punctuation tokens, to count words (not tokens) for scope distances
+        self.punct = [i for i, t in enumerate(toks) if not t[0].isalnum()]
+        # bracket depth of each token: a trigger inside "( ... )" acts only
+        # inside it ("report (slides not submitted) indicates lymphoma")
+        if _BRACKET_RE.search(low, lo, hi):
+            depth: list[int] = []
+            d = 0
+            for t in toks:
+                if t in _CLOSE and d:
+                    d -= 1
+                depth.append(d)
+                if t in _OPEN:
+                    d += 1
+            self.depth = depth
+
+    def token_range(self, start: int, end: int) -> tuple[int, int]:
+        """Indices of the tokens overlapping ``[start, end)`` (first, after last)."""
+        starts, ends = self.starts, self.ends
+        if starts is None or ends is None:
+            found = list(_TOKEN_RE.finditer(self.low, self.lo, self.hi))
+            starts = self.starts = list(map(_match_start, found))
+            ends = self.ends = list(map(_match_end, found))
+        return bisect_right(ends, start), bisect_left(starts, end)
+
+    def char_span(self, start: int, end: int) -> tuple[int, int]:
+        """Character offsets of tokens ``start`` to ``end`` (exclusive)."""
+        assert self.starts is not None and self.ends is not None
+        return self.starts[start], self.ends[end - 1]
+
+
+_Index = dict[
+    str, tuple[tuple[_Spec, ...], dict[str, list[tuple[list[str], int, tuple[_Spec, ...]]]]]
+]
+_PLAIN = Assertion()
+# resolved path -> (modification time, size, engine): an edited file is reloaded
+_CACHE: dict[str, tuple[int, int, AssertionEngine]] = {}
+_CACHE_LOCK = threading.Lock()
+
+
+class AssertionEngine:
+    """Assess mentions against a trigger lexicon.
+
+    >>> engine = AssertionEngine.load()
+    >>> text = "Suspicious for adenocarcinoma."
+    >>> a = engine.assess(text, [(15, 29)])[0]
+    >>> a.certainty, a.triggers[0].text
+    ('uncertain', 'Suspicious for')
+    """
+
+    def __init__(self, triggers: Iterable[Trigger], *, path: str | Path | None = None) -> None:
+        self.path = None if path is None else Path(path)
+        self.triggers: tuple[Trigger, ...] = tuple(triggers)
+        grouped: dict[tuple[str, ...], list[Trigger]] = {}
+        abbreviations: set[str] = set()
+        breaks: list[tuple[str, ...]] = []
+        for t in self.triggers:
+            if t.category == "abbreviation":
+                abbreviations.add(t.tokens[0])
+            elif t.category == "break":
+                breaks.append(t.tokens)
+            else:
+                grouped.setdefault(t.tokens, []).append(t)
+        # first word -> (one-word triggers, {second word -> longer phrases})
+        index: _Index = {}
+        for toks, trigs in grouped.items():
+            specs = tuple(_spec(t) for t in trigs)
+            single, longer = index.setdefault(toks[0], ((), {}))
+            if len(toks) == 1:
+                index[toks[0]] = (single + specs, longer)
+            else:
+                longer.setdefault(toks[1], []).append((list(toks), len(toks), specs))
+        self._index = index
+        self._abbreviations = frozenset(abbreviations)
+        self._break_re = _phrase_regex(breaks)
+        self._stop_re = re.compile(
+            _STOP_HEAD
+            + "(?i:"
+            + "".join(rf"(?<!\b{re.escape(a)}\.)" for a in sorted(abbreviations))
+            + "))"
+        )
+
+    @classmethod
+    def load(cls, path: str | Path | None = None) -> AssertionEngine:
+        """Load (and cache per path and file version) a trigger lexicon.
+
+        Raises :class:`~pathsieve.errors.VocabError` naming the file and line of
+        the first problem.
+        """
+        p = Path(path) if path is not None else default_triggers_path()
+        try:
+            st = p.stat()
+        except OSError as exc:
+            raise VocabError(
+                f"trigger lexicon not found ({exc.strerror}); pass an existing file",
+                path=p,
+            ) from None
+        key = str(p.resolve())
+        with _CACHE_LOCK:
+            cached = _CACHE.get(key)
+        if cached is not None and cached[:2] == (st.st_mtime_ns, st.st_size):
+            return cached[2]
+        rows, problems = parse_triggers(p)
+        if problems:
+            where, _, message = problems[0].partition(": ")
+            line = where.rsplit(":", 1)[-1]
+            more = len(problems) - 1
+            if more:
+                message += f" (and {more} more; run `pathsieve vocab check`)"
+            raise VocabError(message, path=p, line=int(line) if line.isdigit() else None)
+        engine = cls(rows, path=p)
+        with _CACHE_LOCK:
+            _CACHE[key] = (st.st_mtime_ns, st.st_size, engine)
+        return engine
+
+    # -- sentences ---------------------------------------------------------
+
+    def sentence_breaks(self, text: str, boundaries: Sequence[int] = ()) -> list[tuple[int, int]]:
+        """Sorted ``(start, end)`` offsets of everything that ends a sentence.
+
+        >>> AssertionEngine.load().sentence_breaks("No tumor. Benign; see note.")
+        [(9, 9), (16, 17), (27, 27)]
+        """
+        spans: list[tuple[int, int]] = [(b, b) for b in boundaries]
+        # the break falls after the stop, which stays with its sentence:
+        # "Adenocarcinoma?" keeps its "?"
+        spans.extend((e, e) for e in map(_match_end, self._stop_re.finditer(text)))
+        for pattern in (_LINE_RE, _FLAT_RE):
+            for m in pattern.finditer(text):
+                start = m.start()
+                if m.group("head") is not None:
+                    # a heading right under an empty heading is its sub-heading
+                    # ("SOCIAL HISTORY:  TOBACCO: quit"): the parent still governs it
+                    k = start
+                    while k > 0 and text[k - 1].isspace():
+                        k -= 1
+                    if k > 0 and text[k - 1] == ":":
+                        continue
+                spans.append((start, m.end()))
+        if self._break_re is not None:
+            spans.extend(m.span() for m in self._break_re.finditer(text))
+        spans.sort()
+        return spans
+
+    # -- assessment --------------------------------------------------------
+
+    def assess(
+        self,
+        text: str,
+        spans: Sequence[tuple[int, int]],
+        *,
+        boundaries: Sequence[int] = (),
+    ) -> list[Assertion]:
+        """One :class:`Assertion` per ``(start, end)`` span of ``text``.
+
+        ``boundaries`` are offsets (section or specimen-part starts) that no
+        scope crosses.
+
+        >>> engine = AssertionEngine.load()
+        >>> text = "A. No carcinoma.\\nB. Adenocarcinoma."
+        >>> [a.certainty for a in engine.assess(text, [(6, 15), (20, 34)], boundaries=[17])]
+        ['absent', 'present']
+        """
+        if not spans:
+            return []
+        n = len(text)
+        low = text.lower()
+        if len(low) != n:  # a few characters lower-case to two; keep offsets aligned
+            low = "".join(c if len(c.lower()) != 1 else c.lower() for c in text)
+        breaks = self.sentence_breaks(text, sorted(boundaries))
+        bstarts = [b[0] for b in breaks]
+        bends = [b[1] for b in breaks]
+        nb = len(breaks)
+        index = self._index
+        sentences: dict[tuple[int, int], _Sentence] = {}
+        out: list[Assertion] = []
+        for s, e in spans:
+            if not 0 <= s <= e <= n:
+                raise InputError(
+                    f"mention span ({s}, {e}) lies outside the text (length {n}); "
+                    "pass character offsets into the text being assessed"
+                )
+            # the sentence: from the last break ending at or before s to the
+            # first break starting at or after e (breaks inside a mention are
+            # ignored: the mention holds the sentence together)
+            i = bisect_right(bends, s) - 1
+            lo = bends[i] if i >= 0 else 0
+            j = bisect_left(bstarts, e)
+            hi = bstarts[j] if j < nb else n
+            sent = sentences.get((lo, hi))
+            if sent is None:
+                sent = sentences[(lo, hi)] = _Sentence(index, low, lo, hi)
+            out.append(_assess_one(text, sent, s, e) if sent.acting else _PLAIN)
+        return out
+
+
+def _assess_one(text: str, sent: _Sentence, s: int, e: int) -> Assertion:
+    # token range of the mention: the tokens overlapping [s, e)
+    ms, me = sent.token_range(s, e)
+    if me < ms:
+        me = ms
+    punct = sent.punct
+    depth = sent.depth
+    terminators = sent.terminators
+    best: list[tuple[int, int, int, _Hit] | None] = [None, None, None]
+    for hit in sent.acting:
+        ts, te, sp = hit
+        axis, bits, scope, tie, _, trig = sp
+        if ts < me and te > ms and me > ms:
+            # a certainty trigger inside the mention is part of its name ("no
+            # acute distress" extracted whole); a temporal or experiencer
+            # trigger opening the mention dates it ("status post CABG")
+            if axis == 0 or ts != ms:
+                continue
+            g0, g1, order = ms, ms, 0
+        elif te <= ms and bits & _FORWARD:
+            g0, g1, order = te, ms, 0
+        elif ts >= me and bits & _BACKWARD:
+            g0, g1, order = me, ts, 1
+        else:
+            continue
+        if g1 > g0:  # words between: tokens minus punctuation tokens
+            dist = g1 - g0
+            if punct:
+                dist -= bisect_left(punct, g1) - bisect_left(punct, g0)
+        else:
+            dist = 0
+        if dist > scope:
+            continue
+        if depth is not None:
+            d = depth[ts]
+            if d and any(depth[k] < d for k in range(g0, g1)):
+                continue
+        if terminators:
+            cat = trig.category
+            if any(a >= g0 and b <= g1 and cat in applies for a, b, applies in terminators):
+                continue
+        cur = best[axis]
+        if cur is None or (dist, tie, order) < cur[:3]:
+            best[axis] = (dist, tie, order, hit)
+    if best[0] is None and best[1] is None and best[2] is None:
+        return _PLAIN
+    values = ["present", "current", "patient"]
+    hits: list[TriggerHit] = []
+    for axis, chosen in enumerate(best):
+        if chosen is not None:
+            ts, te, sp = chosen[3]
+            category = sp[5].category
+            values[axis] = category
+            a, b = sent.char_span(ts, te)
+            hits.append(TriggerHit(text[a:b], a, b, category))
+    hits.sort(key=lambda h: h.start)
+    return Assertion(values[0], values[1], values[2], tuple(hits))
+
+
+def _phrase_regex(phrases: Sequence[tuple[str, ...]]) -> re.Pattern[str] | None:
+    """A regex for token sequences, whitespace-flexible, not inside a word."""
+    if not phrases:
+        return None
+    alts = []
+    for toks in sorted(phrases, key=len, reverse=True):
+        body = r"\s*".join(re.escape(t) for t in toks)
+        left = r"(?<!\w)" if toks[0][0].isalnum() else ""
+        right = r"(?!\w)" if toks[-1][-1].isalnum() else ""
+        alts.append(left + body + right)
+    return re.compile("|".join(alts), re.IGNORECASE)
