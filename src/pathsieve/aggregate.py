@@ -85,18 +85,21 @@ def _most_definite(states: Iterable[str]) -> str:
     return min(states, key=lambda s: _RANK[s])
 
 
-def _negation_reach(scheme: Scheme, concept_id: str) -> tuple[str, ...]:
-    """Labels a *negated* mention of ``concept_id`` speaks against.
+def _negation_reach(scheme: Scheme, concept_id: str) -> tuple[tuple[str, ...], tuple[str, ...]]:
+    """Labels a *negated* mention of ``concept_id`` speaks against: (own, broad).
 
-    Its own roll-up labels, plus labels whose every class lies beneath the
-    negated concept ("negative for carcinoma" negates adenocarcinoma).
+    ``own`` are its roll-up labels; ``broad`` are labels with a class beneath the
+    negated concept ("negative for carcinoma" speaks against adenocarcinoma).
+    A broad negation sets a label absent but never contradicts an affirmation.
     """
     onto = scheme.ontology
-    keys = list(scheme.labels_for(concept_id))
-    for key, d in scheme.labels.items():
-        if key not in keys and all(onto.is_a(c, concept_id) for c in d.classes):
-            keys.append(key)
-    return tuple(keys)
+    own = scheme.labels_for(concept_id)
+    broad = tuple(
+        key
+        for key, d in scheme.labels.items()
+        if key not in own and any(onto.is_a(c, concept_id) for c in d.classes)
+    )
+    return own, broad
 
 
 def _section_role(section: str, report: ReadReport) -> str:
@@ -112,8 +115,8 @@ def _section_role(section: str, report: ReadReport) -> str:
 
 def aggregate(report: ReadReport, scheme: Scheme) -> CaseLabels:
     """Aggregate a read report into per-part and per-case labels."""
-    # (part, label) -> role -> list of (state, from_addendum)
-    votes: dict[tuple[str, str], dict[str, list[tuple[str, bool]]]] = defaultdict(
+    # (part, label) -> role -> list of (state, from_addendum, broad)
+    votes: dict[tuple[str, str], dict[str, list[tuple[str, bool, bool]]]] = defaultdict(
         lambda: defaultdict(list)
     )
     evidence: list[EvidenceRow] = []
@@ -123,11 +126,12 @@ def aggregate(report: ReadReport, scheme: Scheme) -> CaseLabels:
             part_order.append(p.label)
 
     for m, a in zip(report.mentions, report.assertions, strict=True):
-        keys = (
-            _negation_reach(scheme, m.concept_id)
-            if a.certainty == "absent"
-            else scheme.labels_for(m.concept_id)
-        )
+        broad: tuple[str, ...] = ()
+        if a.certainty == "absent":
+            own, broad = _negation_reach(scheme, m.concept_id)
+        else:
+            own = scheme.labels_for(m.concept_id)
+        keys = own + broad
         role = _section_role(m.section, report)
         decides = bool(keys) and a.counts and role != "none"
         evidence.append(EvidenceRow("mention", m.part, keys, m, None, a, decides))
@@ -136,7 +140,7 @@ def aggregate(report: ReadReport, scheme: Scheme) -> CaseLabels:
         if m.part not in part_order:
             part_order.append(m.part)
         for k in keys:
-            votes[(m.part, k)][role].append((a.certainty, m.section == "addendum"))
+            votes[(m.part, k)][role].append((a.certainty, m.section == "addendum", k in broad))
 
     values_by_part: dict[str, list[Value]] = defaultdict(list)
     for v, a in zip(report.values, report.value_assertions, strict=True):
@@ -153,10 +157,11 @@ def aggregate(report: ReadReport, scheme: Scheme) -> CaseLabels:
         chosen = roles.get("decide") or roles.get("support") or []
         if not chosen:
             continue
-        addenda = [s for s, from_add in chosen if from_add]
-        pool = addenda or [s for s, _ in chosen]
-        state = _most_definite(pool)
-        conflict = "absent" in pool and any(s != "absent" for s in pool)
+        addenda = [v for v in chosen if v[1]]
+        pool = addenda or chosen
+        state = _most_definite(s for s, _, _ in pool)
+        # only a negation of the label itself contradicts an affirmation of it
+        conflict = state != "absent" and any(s == "absent" and not b for s, _, b in pool)
         parts[part].states[key] = LabelState(key, state, conflict=conflict)
         if conflict:
             parts[part].flags.append(f"conflict:{key}")

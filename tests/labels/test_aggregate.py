@@ -222,3 +222,10 @@ def test_inconsistent_value_flag_is_reported(scheme: Scheme) -> None:
 def test_primary_label_by_severity(scheme: Scheme) -> None:
     res = aggregate(report([(M(HGD), A()), (M(ADENOCA), A("likely"))]), scheme)
     assert res.primary_label == "adenocarcinoma"
+
+
+def test_broad_negation_never_contradicts_an_affirmation(scheme: Scheme) -> None:
+    # "mucinous adenocarcinoma ... negative for carcinoma at the margin" style: no conflict
+    res = aggregate(report([(M(MUCINOUS), A()), (M(CARCINOMA), A("absent"))]), scheme)
+    st = res.case.states["adenocarcinoma"]
+    assert (st.state, st.conflict) == ("present", False)
