@@ -29,6 +29,7 @@ from .records import CERTAINTY_SCORE
 from .vocab import file_digest, schemes_dir
 
 __all__ = [
+    "KNOWN_VALUES",
     "Implication",
     "LabelDef",
     "Scheme",

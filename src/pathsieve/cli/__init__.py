@@ -18,7 +18,16 @@ from ..errors import PathsieveError
 __all__ = ["COMMANDS", "build_parser", "main"]
 
 #: Command modules, in the order ``pathsieve --help`` lists them.
-COMMANDS: tuple[str, ...] = ("label", "demo", "schemes", "ontology", "vocab")
+COMMANDS: tuple[str, ...] = (
+    "label",
+    "validate",
+    "sample",
+    "review",
+    "demo",
+    "schemes",
+    "ontology",
+    "vocab",
+)
 
 
 def build_parser() -> argparse.ArgumentParser:

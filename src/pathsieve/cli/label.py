@@ -7,7 +7,7 @@ import sys
 from typing import Any
 
 from ..export import UNCERTAIN_MODES
-from ..runner import LabelOptions, default_workers, label_file
+from ..runner import ENGINES, LabelOptions, default_workers, label_file
 
 __all__ = ["register", "run"]
 
@@ -42,7 +42,25 @@ def register(sub: Any) -> None:
     )
     p.add_argument("--id-col", default="case_id", help="case id column (default: case_id)")
     p.add_argument("--text-col", default="text", help="report text column (default: text)")
-    p.add_argument("--workers", type=int, default=None, help="processes (default: all cores)")
+    p.add_argument(
+        "--workers",
+        type=int,
+        default=None,
+        help="processes (default: all cores); output is identical for any number",
+    )
+    p.add_argument(
+        "--engine",
+        choices=ENGINES,
+        default="local",
+        help="local: this machine; dask: a dask.distributed cluster, writing partitioned "
+        "Parquet (-o and --evidence name directories)",
+    )
+    p.add_argument(
+        "--scheduler",
+        metavar="tcp://HOST:PORT",
+        help="with --engine dask: an existing cluster's scheduler (default: start a local one "
+        "with --workers processes); paths must be on storage every worker sees",
+    )
     p.add_argument(
         "--redact-evidence",
         action="store_true",
@@ -69,6 +87,8 @@ def run(args: argparse.Namespace) -> int:
         text_col=args.text_col,
         workers=args.workers or default_workers(),
         progress=not args.no_progress and sys.stderr.isatty(),
+        engine=args.engine,
+        scheduler=args.scheduler,
     )
     print(summary.text(), file=sys.stderr)
     print(
