@@ -1,0 +1,1004 @@
+"""Concept matching: ontology names and synonyms, abbreviations, misspellings.
+
+:class:`ConceptMatcher` finds ontology concepts in a report and returns
+:class:`~pathsieve.records.Mention` records whose ``text`` is always
+``original[start:end]``.  Three ways a mention is found:
+
+* **exact** - every name and synonym of the ontology (scopes EXACT, NARROW and
+  RELATED; BROAD synonyms are more general than the concept and would
+  over-claim), with generated variants (plural of the last word, a hyphen
+  removed, "CIN 2" <-> "CIN2"), matched with one Aho-Corasick automaton over
+  the normalised text.  Matching text and keys both have punctuation turned
+  into spaces and are padded with a space, so a key can only match whole
+  words;
+* **abbreviation** - the rows of the abbreviation dictionary and the
+  ABBREVIATION synonyms of the ontology the dictionary does not list, matched
+  as whole tokens of the *original* text (case-sensitively where the row says
+  so; an ontology short form is case-sensitive when written with a capital).
+  Several senses are settled by :func:`~pathsieve.abbreviations.choose_sense`
+  (scheme, section, nearby words); a definition in the report itself
+  ("traditional serrated adenoma (TSA)") overrides the dictionary.  A name
+  two unrelated concepts share ("acinar adenocarcinoma": prostate or lung) is
+  settled the same way;
+* **fuzzy** - a word that is neither a vocabulary word nor a common word
+  (``ontology/lexicon/common_words.txt``) is corrected to the closest
+  vocabulary word when similar enough (rapidfuzz ``ratio`` at or above
+  ``fuzzy_cutoff``; words shorter than ``fuzzy_min_length`` are never
+  corrected alone), or when undoing one typical OCR confusion ("rn" for "m",
+  "0" for "o", "v" for "y") spells a vocabulary word (score 95).  Two
+  neighbouring words are joined when together they spell a vocabulary word
+  ("adeno carcinoma", "car.cinoma"), and a word that is two vocabulary words
+  run together is split.  The corrected text is matched again with the exact
+  automaton, so a correction yields a mention only when a whole name or
+  synonym results, using the correction whole.  A negation glued to a word
+  ("nomalignancy") is never corrected away.
+
+The cut-off (88) and the shortest word (6) were chosen with
+``tests/reading/fuzzy_calibration.py``: the smallest cut-off with no false hit
+on several hundred ordinary and near-miss words, with the filter of common
+words switched off; recall there is 95% on 61 realistic misspellings.
+
+Overlaps: the longest span wins, then exact before abbreviation before fuzzy,
+then the deeper concept in the is_a hierarchy.
+
+>>> from pathsieve.ontology import load_ontology
+>>> m = ConceptMatcher(load_ontology(), scheme_name="colorectal")
+>>> [(x.label, x.text, x.match) for x in m.find("Tubulovilous adenoma with HGD.")][:1]
+[('tubulovillous adenoma', 'Tubulovilous adenoma', 'fuzzy')]
+"""
+
+from __future__ import annotations
+
+import re
+from collections.abc import Callable, Collection, Sequence
+from dataclasses import dataclass, field
+from functools import lru_cache
+from pathlib import Path
+from typing import Any
+
+import ahocorasick
+from rapidfuzz import fuzz, process
+
+from .abbreviations import (
+    AbbreviationDictionary,
+    Choice,
+    Sense,
+    choose_sense,
+    cue_words,
+    find_definitions,
+    window_words,
+)
+from .errors import ConfigError, InputError, VocabError
+from .normalize import NormText, normalize
+from .ontology import Ontology
+from .records import Mention
+from .vocab import lexicon_path
+
+__all__ = [
+    "FUZZY_CUTOFF",
+    "FUZZY_MIN_LENGTH",
+    "ConceptMatcher",
+    "check_common_words",
+    "load_common_words",
+    "matching_key",
+    "matching_text",
+    "plural_forms",
+]
+
+#: Default similarity cut-off (rapidfuzz ``ratio``, 0-100) for a fuzzy
+#: correction; chosen by measurement (tests/reading/fuzzy_calibration.py).
+FUZZY_CUTOFF = 88.0
+#: Words shorter than this are never fuzzy-corrected (chosen by measurement).
+FUZZY_MIN_LENGTH = 6
+
+# Synonym scopes matched exactly, best first (BROAD is left out on purpose).
+_KIND_RANK = {"name": 0, "exact": 1, "narrow": 2, "related": 3, "variant": 4}
+
+# Matching text: every character that is not a letter, digit or space becomes a
+# space (one for one, so offsets are kept).
+_ASCII_KEEP = set(b"abcdefghijklmnopqrstuvwxyz0123456789 ")
+_BYTES_TABLE = bytes(c if c in _ASCII_KEEP else 0x20 for c in range(256))
+_NON_WORD_RE = re.compile(r"[^\w ]|_")
+_WORD_RE = re.compile(r"[a-z0-9]+")
+
+# Typical OCR confusions (as read -> as meant), undone one place at a time
+# before a fuzzy comparison: "carcinorna" -> "carcinoma", "atrophv" -> "atrophy".
+_OCR_CONFUSIONS: tuple[tuple[str, str], ...] = (
+    ("rn", "m"),
+    ("m", "rn"),
+    ("cl", "d"),
+    ("vv", "w"),
+    ("li", "h"),
+    ("0", "o"),
+    ("1", "l"),
+    ("1", "i"),
+    ("l", "i"),
+    ("i", "l"),
+    ("5", "s"),
+    ("v", "y"),
+)
+# Score of a vocabulary word reached by undoing one OCR confusion: as good as
+# one dropped letter in a long word, above any sensible cut-off.
+_OCR_SCORE = 95.0
+_OCR_FLOOR = 70.0
+# Words that, glued to a finding, carry its negation ("no", "not", "negative for").
+_GLUED_PREFIXES = ("no", "not", "for")
+
+
+def matching_text(normalised: str) -> str:
+    """The string the automaton searches: punctuation -> space, same length.
+
+    >>> matching_text("crohn's disease (her2/neu)")
+    'crohn s disease  her2 neu '
+    """
+    if normalised.isascii():
+        return normalised.encode("ascii").translate(_BYTES_TABLE).decode("ascii")
+    return _NON_WORD_RE.sub(" ", normalised)
+
+
+@lru_cache(maxsize=16384)
+def matching_key(surface: str) -> str:
+    """The automaton key of a name or synonym.
+
+    >>> matching_key("High-Grade  Dysplasia"), matching_key("HER2/neu")
+    ('high grade dysplasia', 'her2 neu')
+    """
+    return " ".join(matching_text(normalize(surface).text).split())
+
+
+def plural_forms(word: str) -> tuple[str, ...]:
+    """English (and a few Latin/Greek) plurals of a lower-case word.
+
+    >>> plural_forms("adenoma"), plural_forms("biopsy"), plural_forms("metastasis")
+    (('adenomas', 'adenomata'), ('biopsies',), ('metastases',))
+    """
+    if not word.isalpha() or len(word) < 3:
+        return ()
+    if word.endswith("sis"):
+        return (word[:-2] + "es",)
+    if word.endswith("oma"):
+        return (word + "s", word + "ta")
+    if word.endswith("us") and not word.endswith("ous"):
+        return (word[:-2] + "i", word + "es")
+    if word.endswith("um"):
+        return (word[:-2] + "a", word + "s")
+    if word.endswith("ix") or word.endswith("ex"):
+        return (word[:-2] + "ices", word + "es")
+    if word.endswith("y") and word[-2] not in "aeiou":
+        return (word[:-1] + "ies",)
+    if word.endswith("ss") or word.endswith(("x", "z", "ch", "sh")):
+        return (word + "es",)
+    if word.endswith("s"):
+        return ()  # most likely a plural already ("adenocarcinomas")
+    if word.endswith("ous") or word.endswith("al") or word.endswith("ic"):
+        return ()  # adjectives
+    return (word + "s",)
+
+
+def _variants(surface: str, key: str) -> set[str]:
+    """Generated spellings of a key: plural, hyphen removed, "cin 2" <-> "cin2"."""
+    out: set[str] = set()
+    words = key.split()
+    if words:
+        for p in plural_forms(words[-1]):
+            out.add(" ".join([*words[:-1], p]))
+    if re.search(r"[A-Za-z]-[A-Za-z]", surface):
+        out.add(matching_key(re.sub(r"(?<=[A-Za-z])-(?=[A-Za-z])", "", surface)))
+    joined = re.sub(r"\b([a-z]+) (\d)", r"\1\2", key)
+    split = re.sub(r"\b([a-z]+)(\d)", r"\1 \2", key)
+    out.update({joined, split})
+    out.discard(key)
+    return {v for v in out if v}
+
+
+# --------------------------------------------------------------------------- common words
+
+
+def load_common_words(path: str | Path | None = None) -> frozenset[str]:
+    """The ordinary words never treated as misspellings (``common_words.txt``)."""
+    p = Path(path) if path is not None else lexicon_path("common_words.txt")
+    words, problems = _parse_common_words(p)
+    if problems:
+        line, message = problems[0]
+        raise VocabError(message, path=p, line=line)
+    return words
+
+
+def check_common_words(path: str | Path | None = None) -> list[str]:
+    """Problems of a common-words file as ``"file:line: message"``."""
+    p = Path(path) if path is not None else lexicon_path("common_words.txt")
+    _, problems = _parse_common_words(p)
+    return [f"{p}:{line}: {msg}" if line else f"{p}: {msg}" for line, msg in problems]
+
+
+def _parse_common_words(p: Path) -> tuple[frozenset[str], list[tuple[int | None, str]]]:
+    try:
+        lines = p.read_text(encoding="utf-8").splitlines()
+    except (OSError, UnicodeDecodeError) as exc:
+        return frozenset(), [(None, f"cannot read common-words file ({exc}); check the path")]
+    words: dict[str, int] = {}
+    problems: list[tuple[int | None, str]] = []
+    for n, raw in enumerate(lines, 1):
+        w = raw.split("#", 1)[0].strip()
+        if not w:
+            continue
+        if not re.fullmatch(r"[a-z][a-z']*", w):
+            problems.append((n, f"bad word {w!r}: one lower-case word per line, letters only"))
+        elif w in words:
+            problems.append((n, f"duplicate word {w!r} (first at line {words[w]}); remove one"))
+        else:
+            words[w] = n
+    return frozenset(words), problems
+
+
+# --------------------------------------------------------------------------- index
+
+
+@dataclass(slots=True)
+class _Entry:
+    """What one automaton key stands for."""
+
+    concept_id: str = ""
+    rank: int = 9
+    senses: tuple[Sense, ...] = ()  # non-empty: a case-insensitive short form
+    neg_depth: int = 0  # minus the concept's number of ancestors (sorts deeper first)
+    # a name or synonym two unrelated concepts share: one pseudo-sense per concept,
+    # settled by the words around it like the senses of a short form
+    choices: tuple[Sense, ...] = ()
+
+
+@dataclass(slots=True)
+class _Index:
+    """Everything built once per (ontology, dictionary, options)."""
+
+    automaton: Any
+    entries: list[_Entry]
+    cs_automaton: Any
+    cs_senses: dict[str, tuple[Sense, ...]]
+    folded_senses: dict[str, tuple[Sense, ...]]
+    key_concept: dict[str, str]
+    labels: dict[str, str]
+    depth: dict[str, int]
+    concept_words: dict[str, frozenset[str]]
+    sense_cues: dict[Sense, frozenset[str]]
+    vocab_words: frozenset[str]
+    known_words: frozenset[str]
+    targets_by_first: dict[tuple[int, str], list[str]]
+    targets_by_last: dict[tuple[int, str], list[str]]
+    target_text: dict[str, str]
+    join_ends: frozenset[tuple[str, str]]
+    join_heads: frozenset[str]
+    join_tails: frozenset[str]
+    ambiguous_keys: dict[str, tuple[str, ...]] = field(default_factory=dict)
+
+
+def _build_index(
+    onto: Ontology,
+    abbreviations: AbbreviationDictionary,
+    common_words: frozenset[str],
+    min_length: int,
+) -> _Index:
+    best: dict[str, tuple[int, str]] = {}  # key -> (rank, concept id)
+    ambiguous: dict[str, set[str]] = {}
+    depth = {cid: len(onto.ancestors(cid)) for cid in onto.terms}
+    line = {cid: t.line for cid, t in onto.terms.items()}
+    cs: dict[str, list[Sense]] = {}
+    folded: dict[str, list[Sense]] = {}
+
+    def offer(key: str, cid: str, rank: int) -> None:
+        if not key:
+            return
+        old = best.get(key)
+        if old is None or rank < old[0]:
+            best[key] = (rank, cid)
+            return
+        if rank > old[0] or old[1] == cid:
+            return
+        # two concepts share a key at the same rank: the deeper one if one is
+        # a kind of the other, else the one defined first (and remember it)
+        if onto.is_a(cid, old[1]):
+            best[key] = (rank, cid)
+        elif not onto.is_a(old[1], cid):
+            ambiguous.setdefault(key, {old[1]}).add(cid)
+            if line.get(cid, 0) < line.get(old[1], 0):
+                best[key] = (rank, cid)
+
+    # The dictionary is the authority on every short form it lists (its rows
+    # carry contexts and case rules); an ontology ABBREVIATION synonym it does
+    # not list is read in every context, case-sensitively when written with a
+    # capital.
+    for s in abbreviations.senses:
+        if s.case_sensitive:
+            cs.setdefault(s.abbr, []).append(s)
+        else:
+            folded.setdefault(matching_key(s.abbr), []).append(s)
+    in_dictionary = {matching_key(s.abbr) for s in abbreviations.senses}
+    for text, cid, kind in onto.surface_forms():
+        if kind == "abbreviation":
+            if matching_key(text) in in_dictionary:
+                continue
+            sense = Sense(text, onto.terms[cid].label, cid, ("*",), any(c.isupper() for c in text))
+            bucket = (
+                cs.setdefault(text, [])
+                if sense.case_sensitive
+                else folded.setdefault(matching_key(text), [])
+            )
+            if all(b.concept_id != cid for b in bucket):
+                bucket.append(sense)
+            continue
+        if kind not in _KIND_RANK:
+            continue  # broad synonyms
+        key = matching_key(text)
+        offer(key, cid, _KIND_RANK[kind])
+        for v in _variants(text, key):
+            offer(v, cid, _KIND_RANK["variant"])
+
+    automaton = ahocorasick.Automaton()
+    entries: list[_Entry] = []
+    for key, (rank, cid) in best.items():
+        choices: tuple[Sense, ...] = ()
+        if key in ambiguous:
+            ids = sorted(ambiguous[key] | {cid}, key=lambda c: (line.get(c, 0), c))
+            choices = tuple(Sense(key, onto.terms[c].label, c, ("*",)) for c in ids)
+        automaton.add_word(f" {key} ", (len(key) + 2, len(entries)))
+        entries.append(_Entry(cid, rank, (), -depth.get(cid, 0), choices))
+    for key, senses in folded.items():
+        if key in best:
+            continue  # a name or synonym wins over a short form spelled the same
+        automaton.add_word(f" {key} ", (len(key) + 2, len(entries)))
+        entries.append(_Entry("", 9, tuple(senses)))
+    if entries:
+        automaton.make_automaton()
+    cs_automaton = ahocorasick.Automaton()
+    for form, senses in cs.items():
+        cs_automaton.add_word(form, (len(form), tuple(senses)))
+    if cs:
+        cs_automaton.make_automaton()
+
+    vocab_words = frozenset(w for key in best for w in key.split())
+    abbreviation_words = frozenset(
+        w for form in [*folded, *(matching_key(f) for f in cs)] for w in form.split()
+    )
+    known = vocab_words | common_words | abbreviation_words
+
+    # Fuzzy targets: words of the names and synonyms as written (generated
+    # variants such as plurals are left out: "koilocytoses" sits too close to
+    # the ordinary "koilocytes"), and two-word names run together.
+    primary = [k for k, (rank, _) in best.items() if rank < _KIND_RANK["variant"]]
+    target_text: dict[str, str] = {}
+    for key in primary:
+        for w in key.split():
+            if len(w) >= min_length - 2 and w.isalpha():
+                target_text[w] = w
+    for key in primary:
+        parts = key.split()
+        if len(parts) == 2 and all(p.isalpha() for p in parts):
+            target_text.setdefault("".join(parts), key)
+    # Candidates for a word of length n: targets within 2 letters of n that
+    # share its first letter, plus those that share its last two (a slip seldom
+    # hits both ends of a word; scanning every target would cost 10x more).
+    by_first: dict[tuple[int, str], list[str]] = {}
+    by_last: dict[tuple[int, str], list[str]] = {}
+    for t in sorted(target_text):
+        if (t.endswith("s") and t[:-1] in target_text) or (
+            t.endswith("es") and t[:-2] in target_text
+        ):
+            # a plural ("carcinoids") only draws real words ("carcinosis") closer;
+            # a misspelled plural still reaches its singular, or the plural itself
+            # through the OCR path, which looks targets up exactly
+            continue
+        for n in range(len(t) - 2, len(t) + 3):
+            by_first.setdefault((n, t[0]), []).append(t)
+            by_last.setdefault((n, t[-2:]), []).append(t)
+    join_ends = frozenset((t[:2], t[-2:]) for t in target_text)
+    # the first and last three letters of the targets (a two-letter fragment is
+    # compared with the first or last two)
+    join_heads = frozenset(t[:3] for t in target_text) | frozenset(t[:2] for t in target_text)
+    join_tails = frozenset(t[-3:] for t in target_text) | frozenset(t[-2:] for t in target_text)
+
+    concept_words: dict[str, frozenset[str]] = {}
+    for cid, term in onto.terms.items():
+        words = set(cue_words(term.label))
+        for syn in term.synonyms:
+            if syn.type != "ABBREVIATION" and syn.scope != "BROAD":
+                words |= cue_words(syn.text)
+        for a in onto.ancestors(cid):
+            words |= cue_words(onto.terms[a].label) if a in onto.terms else set()
+        concept_words[cid] = frozenset(words)
+    sense_cues: dict[Sense, frozenset[str]] = {}
+    sense_lists: list[Sequence[Sense]] = [*cs.values(), *folded.values()]
+    sense_lists += [e.choices for e in entries]
+    for group in sense_lists:
+        for s in group:
+            cue = set(s.schemes)
+            if s.concept_id:
+                cue |= concept_words.get(s.concept_id, frozenset())
+            sense_cues[s] = frozenset(cue)
+
+    return _Index(
+        automaton=automaton if entries else None,
+        entries=entries,
+        cs_automaton=cs_automaton if cs else None,
+        cs_senses={k: tuple(v) for k, v in cs.items()},
+        folded_senses={k: tuple(v) for k, v in folded.items()},
+        key_concept={k: cid for k, (_, cid) in best.items()},
+        labels={cid: t.label for cid, t in onto.terms.items()},
+        depth=depth,
+        concept_words=concept_words,
+        sense_cues=sense_cues,
+        vocab_words=vocab_words,
+        known_words=known,
+        targets_by_first=by_first,
+        targets_by_last=by_last,
+        target_text=target_text,
+        join_ends=join_ends,
+        join_heads=join_heads,
+        join_tails=join_tails,
+        ambiguous_keys={k: tuple(sorted(v)) for k, v in ambiguous.items()},
+    )
+
+
+_INDEX_CACHE: dict[tuple[Any, ...], tuple[Ontology, AbbreviationDictionary, _Index]] = {}
+
+
+def _index_for(
+    onto: Ontology, abbreviations: AbbreviationDictionary, common: frozenset[str], min_length: int
+) -> _Index:
+    # Keyed by object identity; the cache holds the objects, so ids stay valid.
+    key = (id(onto), getattr(onto, "digest", ""), id(abbreviations), hash(common), min_length)
+    hit = _INDEX_CACHE.get(key)
+    if hit is not None and hit[0] is onto and hit[1] is abbreviations:
+        return hit[2]
+    index = _build_index(onto, abbreviations, common, min_length)
+    if len(_INDEX_CACHE) >= 8:
+        _INDEX_CACHE.pop(next(iter(_INDEX_CACHE)))
+    _INDEX_CACHE[key] = (onto, abbreviations, index)
+    return index
+
+
+# --------------------------------------------------------------------------- matching
+
+
+# A candidate mention is a plain tuple, so that sorting is one C-level
+# ``list.sort()``: the order is the overlap rule (longest first, then exact >
+# abbreviation > fuzzy, then the deeper concept, then the earlier start).
+#   (start - end, match rank, -depth, start, end, concept id, score, note)
+_Cand = tuple[int, int, int, int, int, str, float, str]
+_MATCH_NAMES = ("exact", "abbreviation", "fuzzy")
+
+
+@dataclass(slots=True)
+class _Correction:
+    start: int  # in the matching text (padded)
+    end: int
+    replacement: str
+    score: float
+    written: str
+
+
+class ConceptMatcher:
+    """Finds ontology concepts in report text (exact, abbreviation, fuzzy).
+
+    ``fuzzy_cutoff`` is the least rapidfuzz ``ratio`` (0-100) for a fuzzy
+    correction; ``None`` turns fuzzy matching off.  ``fuzzy_min_length`` is the
+    shortest word ever corrected.  ``scheme_name`` is the label scheme in use,
+    which guides the choice among senses of a short form.  ``common_words``
+    defaults to the shipped ``common_words.txt``.
+
+    The automata are built once per (ontology, dictionary, options) and shared
+    by every matcher built with the same objects.
+    """
+
+    def __init__(
+        self,
+        ontology: Ontology,
+        abbreviations: AbbreviationDictionary | None = None,
+        *,
+        fuzzy_cutoff: float | None = FUZZY_CUTOFF,
+        fuzzy_min_length: int = FUZZY_MIN_LENGTH,
+        scheme_name: str | None = None,
+        common_words: Collection[str] | None = None,
+    ) -> None:
+        if fuzzy_cutoff is not None and not 0 <= fuzzy_cutoff <= 100:
+            raise ConfigError(
+                f"fuzzy_cutoff must be within 0-100, got {fuzzy_cutoff}; pass e.g. {FUZZY_CUTOFF}"
+            )
+        self.ontology = ontology
+        self.abbreviations = abbreviations if abbreviations is not None else _empty_dictionary()
+        self.fuzzy_cutoff = fuzzy_cutoff
+        self.fuzzy_min_length = fuzzy_min_length
+        self.scheme_name = scheme_name
+        common = frozenset(common_words) if common_words is not None else _default_common_words()
+        self._index = _index_for(ontology, self.abbreviations, common, fuzzy_min_length)
+        self._fuzzy_cache: dict[str, tuple[str, float] | None] = {}
+        self._context_cache: dict[
+            tuple[str, str, str, bool], tuple[int, str, float, str] | None
+        ] = {}
+
+    @property
+    def known_words(self) -> frozenset[str]:
+        """Vocabulary, short-form and common words (lower case)."""
+        return self._index.known_words
+
+    @property
+    def ambiguous_keys(self) -> dict[str, tuple[str, ...]]:
+        """Names/synonyms that unrelated concepts share (settled by context per mention)."""
+        return self._index.ambiguous_keys
+
+    # ------------------------------------------------------------------ public
+
+    def find(
+        self,
+        text: str,
+        norm: NormText | None = None,
+        section_at: Callable[[int], str | None] | None = None,
+    ) -> list[Mention]:
+        """Mentions in ``text``, sorted by start offset.
+
+        ``norm`` is ``normalize(text)`` if the caller already has it;
+        ``section_at(offset)`` gives the section kind at an original offset,
+        used to choose among senses of a short form.  Mentions carry the
+        default section and part; the pipeline fills those in.
+        """
+        idx = self._index
+        if norm is None:
+            norm = normalize(text, known_words=idx.known_words)
+        elif norm.original != text:
+            raise InputError("norm was made from another text; pass normalize(text)")
+        padded = f" {matching_text(norm.text)} "
+        exact: list[_Cand] = []
+        hits: list[tuple[int, int, tuple[Sense, ...]]] = []
+        if idx.automaton is not None:
+            entries = idx.entries
+            raw = [(end, eid, end - klen + 1) for end, (klen, eid) in idx.automaton.iter(padded)]
+            # the key spans [end - klen + 1, end - 1) of the normalised text
+            spans = [(ns, end - 1) for end, _, ns in raw]
+            if norm._maps:
+                spans = norm.spans_to_original(spans)
+            shared: list[tuple[int, int, _Entry]] = []
+            for (_, eid, _), (s, e) in zip(raw, spans, strict=True):
+                entry = entries[eid]
+                if entry.senses:
+                    hits.append((s, e, entry.senses))
+                elif entry.choices:
+                    shared.append((s, e, entry))
+                else:
+                    exact.append((s - e, 0, entry.neg_depth, s, e, entry.concept_id, 100.0, ""))
+            if shared:
+                exact += self._shared_names(text, shared, exact)
+        if idx.cs_automaton is not None:
+            n = len(text)
+            for end, (klen, senses) in idx.cs_automaton.iter(text):
+                s, e = end - klen + 1, end + 1
+                if (s > 0 and text[s - 1].isalnum()) or (e < n and text[e].isalnum()):
+                    continue
+                hits.append((s, e, senses))
+        found = exact + self._abbreviations(text, hits, exact, section_at)
+        if self.fuzzy_cutoff is not None:
+            found += self._fuzzy(norm, padded)
+        return self._resolve(text, found)
+
+    # ------------------------------------------------------------------ stages
+
+    def _abbreviations(
+        self,
+        text: str,
+        hits: list[tuple[int, int, tuple[Sense, ...]]],
+        exact: list[_Cand],
+        section_at: Callable[[int], str | None] | None,
+    ) -> list[_Cand]:
+        idx = self._index
+        depth = idx.depth
+        out: list[_Cand] = []
+        defined: set[str] = set()  # folded short forms the report defines itself
+        if "(" in text:
+            for d in find_definitions(text, at=self._definition_sites(text, exact)):
+                cid = self._concept_of_long_form(d.short, d.long, d.long_start, d.long_end, exact)
+                defined.add(d.short.casefold())
+                if not cid:
+                    continue  # defined as something that is no concept: read nothing
+                note = f"{d.short}: defined in this report as '{d.long}'"
+                for s in _whole_token_starts(text, d.short):
+                    e = s + len(d.short)
+                    out.append((s - e, 1, -depth.get(cid, 0), s, e, cid, 100.0, note))
+        for s, e, senses in hits:
+            written = text[s:e]
+            if defined and written.casefold() in defined:
+                continue  # the report's own definition decides
+            if len(senses) == 1:
+                sense, note = senses[0], ""  # one sense: contexts are only preferences
+            else:
+                choice = choose_sense(
+                    written,
+                    senses,
+                    scheme=self.scheme_name,
+                    section=section_at(s) if section_at is not None else None,
+                    neighbours=self._neighbours(text, s, e, exact),
+                    cues=idx.sense_cues,
+                )
+                if choice is None:
+                    continue
+                sense, note = choice.sense, choice.note
+            cid = sense.concept_id
+            if not cid or cid not in idx.labels:
+                # the sense names no concept (or an id this ontology lacks, which
+                # the dictionary checker reports): the short form yields nothing
+                continue
+            out.append((s - e, 1, -depth.get(cid, 0), s, e, cid, 100.0, note))
+        return out
+
+    def _shared_names(
+        self, text: str, shared: list[tuple[int, int, _Entry]], exact: list[_Cand]
+    ) -> list[_Cand]:
+        """Settle names two concepts share ("acinar adenocarcinoma": prostate or lung)."""
+        depth = self._index.depth
+        out: list[_Cand] = []
+        cues = self._index.sense_cues
+        for s, e, entry in shared:
+            written = text[s:e]
+            near = self._neighbours(text, s, e, exact)
+            choice = choose_sense(written, entry.choices, neighbours=near, cues=cues)
+            if (choice is None or choice.tied) and self.scheme_name:
+                # nothing nearby decides: let the scheme's name speak for the organ
+                by_scheme = choose_sense(
+                    written, entry.choices, neighbours={self.scheme_name}, cues=cues
+                )
+                if by_scheme is not None and not by_scheme.tied:
+                    choice = Choice(
+                        by_scheme.sense,
+                        by_scheme.score,
+                        f"{written}: chose '{by_scheme.sense.expansion}' by scheme "
+                        f"{self.scheme_name} over "
+                        + ", ".join(
+                            f"'{c.expansion}'" for c in entry.choices if c is not by_scheme.sense
+                        ),
+                    )
+            cid = choice.sense.concept_id if choice else entry.concept_id
+            note = choice.note if choice else ""
+            out.append((s - e, 0, -depth.get(cid, 0), s, e, cid, 100.0, note))
+        return out
+
+    def _definition_sites(self, text: str, exact: list[_Cand]) -> list[int]:
+        """The "(" worth the definition search: a definition there would matter.
+
+        It matters when a concept name ends right before the "(" ("hyperplastic
+        polyp (HP)") or inside it ("HP (hyperplastic polyp)"), or when the
+        parenthesis holds a known short form (the report may redefine it).
+        """
+        idx = self._index
+        ends = {c[4] for c in exact}
+        sites = []
+        at = text.find("(")
+        while at >= 0:
+            before = at
+            while before > 0 and text[before - 1].isspace():
+                before -= 1
+            close = text.find(")", at)
+            inner = text[at + 1 : close].strip() if close > at else ""
+            if (
+                before in ends
+                or (close > at and at + 1 + len(text[at + 1 : close].rstrip()) in ends)
+                or inner in idx.cs_senses
+                or (0 < len(inner) <= 12 and matching_key(inner) in idx.folded_senses)
+            ):
+                sites.append(at)
+            at = text.find("(", at + 1)
+        return sites
+
+    def _concept_of_long_form(
+        self, short: str, long: str, start: int, end: int, exact: list[_Cand]
+    ) -> str:
+        idx = self._index
+        key = matching_key(long)
+        cid = idx.key_concept.get(key)
+        if cid:
+            return cid
+        # the longest exact mention that ends the long form ("a new ... adenoma")
+        inside = [c for c in exact if start <= c[3] and c[4] == end]
+        if inside:
+            return min(inside)[5]
+        for s in self.abbreviations.senses_for(short):
+            if s.concept_id and matching_key(s.expansion) == key:
+                return s.concept_id
+        return ""
+
+    def _neighbours(self, text: str, s: int, e: int, exact: list[_Cand]) -> set[str]:
+        lo, hi = max(0, s - 80), min(len(text), e + 80)
+        words = set(window_words(text[lo:s] + " " + text[e:hi]))
+        concept_words = self._index.concept_words
+        for _, _, _, c_start, c_end, cid, _, _ in exact:
+            if c_end > lo and c_start < hi:
+                words |= concept_words.get(cid, frozenset())
+        return words
+
+    def _fuzzy(self, norm: NormText, padded: str) -> list[_Cand]:
+        idx = self._index
+        unknown = set(padded.split()) - idx.known_words
+        if not unknown:
+            return []
+        heads, tails = idx.join_heads, idx.join_tails
+        corrections: list[_Correction] = []
+        for word in unknown:
+            single = len(word) >= self.fuzzy_min_length and not word.isdigit()
+            # a fragment of a split word starts or ends some vocabulary word
+            joinable = (
+                len(word) >= 2 and word.isalpha() and (word[:3] in heads or word[-3:] in tails)
+            )
+            if not joinable and (not single or self._closest(word) is None):
+                continue  # nothing this word could become: skip finding it
+            # every word of the padded matching text has a space on each side
+            needle = f" {word} "
+            at = padded.find(needle)
+            while at >= 0:
+                c = self._correct_at(padded, at + 1, at + 1 + len(word), single)
+                if c is not None:
+                    corrections.append(c)
+                at = padded.find(needle, at + len(word) + 1)
+        if not corrections:
+            return []
+        # keep the best correction where two overlap
+        corrections.sort(key=lambda c: (-c.score, -(c.end - c.start), c.start))
+        kept: list[_Correction] = []
+        for c in corrections:
+            if all(c.end <= k.start or c.start >= k.end for k in kept):
+                kept.append(c)
+        kept.sort(key=lambda c: c.start)
+        return self._rematch(norm, padded, kept)
+
+    def _correct_at(self, padded: str, s: int, e: int, single: bool) -> _Correction | None:
+        """The best correction of the unknown word at ``padded[s:e]`` (maybe with a neighbour).
+
+        Joins are only tried across a single separator: "car.cinoma" or "adeno
+        carcinoma", never across ", ".  The answer depends on the word and its
+        two neighbours only, so it is cached on them.
+        """
+        word = padded[s:e]
+        nxt_end = padded.find(" ", e + 1)
+        nxt = padded[e + 1 : nxt_end] if nxt_end > e + 1 else ""
+        prev_start = padded.rfind(" ", 0, s - 1) + 1 if s >= 2 else s
+        prev = padded[prev_start : s - 1] if prev_start < s - 1 else ""
+        key = (prev, word, nxt, single)
+        cache = self._context_cache
+        if key in cache:
+            found = cache[key]
+        else:
+            found = self._correct_words(prev, word, nxt, single)
+            if len(cache) > 50_000:
+                cache.clear()
+            cache[key] = found
+        if found is None:
+            return None
+        side, replacement, score, written = found
+        if side < 0:
+            return _Correction(prev_start, e, replacement, score, written)
+        if side > 0:
+            return _Correction(s, nxt_end, replacement, score, written)
+        return _Correction(s, e, replacement, score, written)
+
+    def _correct_words(
+        self, prev: str, word: str, nxt: str, single: bool
+    ) -> tuple[int, str, float, str] | None:
+        """(side, replacement, score, written): side -1 joins ``prev``, +1 joins ``nxt``."""
+        options: list[tuple[float, int, int, str, str]] = []  # score, length, side, ...
+        if single:
+            hit = self._closest(word)
+            if hit is not None:
+                options.append((hit[1], len(word), 0, hit[0], word))
+        if word.isalpha():
+            if nxt:
+                joined = self._closest_join(word, nxt)
+                if joined is not None:
+                    written = f"{word} {nxt}"
+                    options.append((joined[1], len(written), 1, joined[0], written))
+            if prev:
+                joined = self._closest_join(prev, word)
+                if joined is not None:
+                    written = f"{prev} {word}"
+                    options.append((joined[1], len(written), -1, joined[0], written))
+        options = [o for o in options if not _glued_negation(o[4], o[3])]
+        if not options:
+            return None
+        score, _, side, replacement, written = max(options)
+        return side, replacement, score, written
+
+    def _closest_join(self, first: str, second: str) -> tuple[str, float] | None:
+        if len(first) < 2 or len(second) < 2 or not second.isalpha() or not first.isalpha():
+            return None
+        joined = first + second
+        if len(joined) < self.fuzzy_min_length:
+            return None
+        idx = self._index
+        if (joined[:2], joined[-2:]) not in idx.join_ends:
+            return None  # both halves must carry the target: its ends are theirs
+        known = idx.known_words
+        if first in known or second in known:
+            # a real word plus a fragment must spell the form exactly: "adeno
+            # carcinoma" yes, "carcinoma id" -> "carcinoid" no
+            replacement = idx.target_text.get(joined)
+            return (replacement, 100.0) if replacement is not None else None
+        hit = self._closest(joined)
+        if hit is None:
+            return None
+        target = hit[0].replace(" ", "")
+        return hit if (target[:2], target[-2:]) == (joined[:2], joined[-2:]) else None
+
+    def _closest(self, word: str) -> tuple[str, float] | None:
+        """(replacement text, score) of the closest vocabulary form, or None."""
+        cache = self._fuzzy_cache
+        if word in cache:
+            return cache[word]
+        result = self._closest_uncached(word)
+        if len(cache) > 50_000:
+            cache.clear()
+        cache[word] = result
+        return result
+
+    def _closest_uncached(self, word: str) -> tuple[str, float] | None:
+        idx = self._index
+        cutoff = self.fuzzy_cutoff if self.fuzzy_cutoff is not None else 100.0
+        if word in idx.target_text:
+            # two vocabulary words run together ("tubularadenoma")
+            replacement = idx.target_text[word]
+            return replacement, fuzz.ratio(word, replacement)
+        if sum(map(str.isdigit, word)) > 2:
+            return None  # a code or a number with letters, not a misspelled word
+        n = len(word)
+        choices = idx.targets_by_first.get((n, word[0]), []) + idx.targets_by_last.get(
+            (n, word[-2:]), []
+        )
+        if not choices:
+            return None
+        # One OCR confusion costs at most two letters, which keeps the plain
+        # ratio of a word of six or more letters at or above 70: below that,
+        # undoing confusions cannot reach a vocabulary word and is not tried.
+        hit = process.extractOne(word, choices, scorer=fuzz.ratio, score_cutoff=_OCR_FLOOR)
+        if hit is None:
+            return None
+        if cutoff <= _OCR_SCORE:
+            for variant in _ocr_variants(word):
+                if variant in idx.target_text:
+                    return idx.target_text[variant], _OCR_SCORE
+        if hit[1] < cutoff:
+            return None
+        return idx.target_text[hit[0]], float(hit[1])
+
+    def _rematch(self, norm: NormText, padded: str, corrections: list[_Correction]) -> list[_Cand]:
+        """Match the corrected text again; keep matches that use a correction."""
+        idx = self._index
+        pieces: list[str] = []
+        spans: list[tuple[int, int, _Correction]] = []  # corrected-text span of each correction
+        pos = 0
+        length = 0
+        for c in corrections:
+            pieces.append(padded[pos : c.start])
+            length += c.start - pos
+            spans.append((length, length + len(c.replacement), c))
+            pieces.append(c.replacement)
+            length += len(c.replacement)
+            pos = c.end
+        pieces.append(padded[pos:])
+        corrected = "".join(pieces)
+
+        def to_padded(i: int, as_end: bool) -> int:
+            shift = 0
+            for a, b, c in spans:
+                if i < a or (as_end and i == a):
+                    break
+                if i < b or (as_end and i == b):
+                    return c.end if as_end else c.start
+                shift = c.end - b
+            return i + shift
+
+        out: list[_Cand] = []
+        for end, (klen, eid) in idx.automaton.iter(corrected):
+            entry = idx.entries[eid]
+            if entry.senses:
+                continue
+            cs, ce = end - klen + 2, end  # the key inside the padding
+            used = [c for a, b, c in spans if a < ce and b > cs]
+            if not used or any(cs > a or ce < b for a, b, c in spans if a < ce and b > cs):
+                # a correction is used whole or not at all: "malignancy" inside
+                # the replacement "no malignancy" is no reading of the words
+                continue
+            ps, pe = to_padded(cs, False), to_padded(ce, True)
+            s, e = norm.to_original(ps - 1, pe - 1)
+            score = min(c.score for c in used)
+            note = "; ".join(
+                f"fuzzy: '{c.written}' read as '{c.replacement}' (score {c.score:.0f})"
+                for c in used
+            )
+            out.append((s - e, 2, entry.neg_depth, s, e, entry.concept_id, round(score, 1), note))
+        return out
+
+    def _resolve(self, text: str, found: list[_Cand]) -> list[Mention]:
+        """Longest first, then exact > abbreviation > fuzzy, then the deeper concept."""
+        labels = self._index.labels
+        found.sort()
+        taken = bytearray(len(text) + 1)
+        kept: list[_Cand] = []
+        for c in found:
+            s, e = c[3], c[4]
+            if e <= s or taken.find(1, s, e) != -1:
+                continue
+            taken[s:e] = b"\x01" * (e - s)
+            kept.append(c)
+        kept.sort(key=lambda c: c[3])
+        return [
+            Mention(
+                cid, labels.get(cid, cid), text[s:e], s, e, "other", "", _MATCH_NAMES[r], sc, nt
+            )
+            for _, r, _, s, e, cid, sc, nt in kept
+        ]
+
+    # ------------------------------------------------------------------ introspection
+
+    def fuzzy_correction(self, word: str) -> tuple[str, float] | None:
+        """What a single unknown word would be corrected to, ignoring the common-word filter.
+
+        For calibration and tests: ``(replacement, score)`` or None.
+        """
+        w = matching_key(word)
+        if len(w) < self.fuzzy_min_length or " " in w:
+            return None
+        return self._closest(w)
+
+
+def _whole_token_starts(text: str, token: str) -> list[int]:
+    """Offsets where ``token`` occurs in ``text`` with no letter or digit either side."""
+    out = []
+    n, k = len(text), len(token)
+    at = text.find(token)
+    while at >= 0:
+        if (at == 0 or not text[at - 1].isalnum()) and (at + k >= n or not text[at + k].isalnum()):
+            out.append(at)
+        at = text.find(token, at + 1)
+    return out
+
+
+def _glued_negation(written: str, replacement: str) -> bool:
+    """Whether ``written`` is a negation word glued to the form.
+
+    "nomalignancy", "noperineural", "notidentified"... and "formalignancy"
+    (from "negative formalignancy"): reading the form would hide the negation
+    from the assertion stage and turn "No malignancy" into a present finding,
+    so such a correction is not made.
+    """
+    w = written.replace(" ", "")
+    r = replacement.replace(" ", "")
+    for prefix in _GLUED_PREFIXES:
+        if w.startswith(prefix) and not r.startswith(prefix):
+            rest = w[len(prefix) :]
+            if rest and r.startswith(rest[:3]):
+                return True
+    return False
+
+
+def _ocr_variants(word: str) -> list[str]:
+    """The word with one OCR confusion undone, each place in turn."""
+    out = []
+    for wrong, right in _OCR_CONFUSIONS:
+        at = word.find(wrong)
+        while at >= 0:
+            out.append(word[:at] + right + word[at + len(wrong) :])
+            at = word.find(wrong, at + 1)
+    return out
+
+
+_COMMON_CACHE: dict[str, frozenset[str]] = {}
+
+
+def _default_common_words() -> frozenset[str]:
+    p = lexicon_path("common_words.txt")
+    key = str(p)
+    if key not in _COMMON_CACHE:
+        _COMMON_CACHE[key] = load_common_words(p)
+    return _COMMON_CACHE[key]
+
+
+_EMPTY: list[AbbreviationDictionary] = []
+
+
+def _empty_dictionary() -> AbbreviationDictionary:
+    if not _EMPTY:
+        _EMPTY.append(AbbreviationDictionary.empty())
+    return _EMPTY[0]
