@@ -1,0 +1,258 @@
+"""Pathological T, N and M categories (AJCC Cancer Staging Manual, 8th edition).
+
+Values keep their prefixes and suffixes: ``"ypT0"``, ``"rpT2"``, ``"pT1b(m)"``,
+``"pN0(i+)"``, ``"pN1mi"``, ``"pN1(sn)"``, ``"pM1c"``.  Rules:
+
+- A category without its own prefix inside a staging string takes the prefix of
+  the string ("pT3 N1b MX" -> pT3, pN1b); a string with no prefix at all
+  ("T3N0") is read as pathological with the flag ``prefix_assumed``.
+- ``MX``/``pMX`` is not a valid category since the 7th edition: no ``pm`` value.
+- M0 is a clinical category (there is no pM0): "M0" and "pM0" give ``"cM0"``,
+  the latter flagged ``pm0_not_valid``.
+- Clinical strings ("cT2 N0", "clinically T2N0") are not read.
+- OCR digits inside a category ("pNO", "pTIc") are read with the flag
+  ``ocr_corrected``; only where the letter N/T/M makes the category certain.
+
+>>> from pathsieve.values import extract_values
+>>> t = "Pathologic stage: pT3 N1b MX"
+>>> [(v.key, v.value, v.text) for v in extract_values(t, [(0, len(t), "diagnosis", "")])]
+[('pt', 'pT3', 'pT3'), ('pn', 'pN1b', 'N1b')]
+"""
+
+from __future__ import annotations
+
+import re
+from collections.abc import Iterator
+from typing import Any
+
+from ..records import Value
+from .common import Anchors, Found, Region, Rx, alternation, keep_non_overlapping
+from .lexicon import ValueLexicon
+
+__all__ = ["TNMReader"]
+
+_PFX = r"(?:[yY][pP]|[rR][pP]|[aA][pP]|[yY][cC]|[pP]|[cC])"
+_PATHOLOGICAL = frozenset({"p", "yp", "rp", "ap"})
+
+
+class TNMReader:
+    """Reads ``pt``, ``pn`` and ``pm``."""
+
+    keys = ("pt", "pn", "pm")
+
+    def __init__(self, lex: ValueLexicon) -> None:
+        self._ocr = dict(lex.str_map("tnm", "ocr_digits"))
+        ocr = "[" + "".join(re.escape(c) for c in self._ocr) + "]"
+        # After an OCR letter the category must end the string or meet the next one,
+        # so "pT2 No evidence of ..." is not read as pN0.
+        ocr_tail = r"[ \t]{0,3}(?:[,;.)(/\n]|$|[pPcC]?[NM][ ]?[0-3OXx])"
+        ocr_end = rf"(?={ocr_tail})"
+        t_cat = (
+            rf"(?P<tc>(?i:is)(?![a-z])|[Xx]|a(?![A-Za-z])"
+            rf"|(?P<td>[0-4]|{ocr}(?=[a-dA-D](?![a-z])|{ocr_tail}))(?P<tsub>mi(?![a-z])|[a-dA-D](?:[1-3](?!\d))?|[ ][a-d](?![A-Za-z]))?)"
+            r"(?P<tm>[ ]?\((?:m|\d{1,2})\))?"
+            r"(?=$|[^A-Za-z0-9]|[NM])(?!/[a-dA-D](?![A-Za-z]))"
+        )
+        n_cat = (
+            rf"(?P<nc>[Xx]|(?P<nd>[0-3]|{ocr}{ocr_end})(?P<nsub>mi(?![a-z])|[a-cA-C](?![a-z]))?)"
+            r"(?P<nsuf>(?:[ ]?\((?:i[+-]|mol[+-]|sn|f)\)){0,2})"
+            r"(?=$|[^A-Za-z0-9]|M)(?!/[a-cA-C](?![A-Za-z]))"
+        )
+        m_cat = (
+            rf"(?P<mc>[Xx]|(?P<md>[01]|{ocr}{ocr_end})(?P<msub>[a-dA-D](?![a-z]))?)"
+            r"(?=$|[^A-Za-z0-9])"
+        )
+        t_tok = rf"(?P<tpre>{_PFX})?(?(tpre)[ ]?)T[ ]?{t_cat}"
+        n_tok = rf"(?P<npre>{_PFX})?(?(npre)[ ]?)N[ ]?{n_cat}"
+        m_tok = rf"(?P<mpre>{_PFX})?(?(mpre)[ ]?)M[ ]?{m_cat}"
+        sep = r"[ \t,;/]{0,3}"
+        nodes = r"(?:\(\d{1,3}/\d{1,3}\)[ \t,;]{0,3})?"
+        lb = r"(?<![A-Za-z0-9])"
+        self._string = re.compile(
+            # no boundary needed before N and M: the T category already ended ("pT2bN0M0")
+            rf"{lb}(?P<T>{t_tok})(?:{sep}(?P<N>{n_tok}))?(?:{sep}{nodes}(?P<M>{m_tok}))?"
+        )
+        # Alone, an N or M needs its prefix: "No" and "MX" are too often other words.
+        self._n_alone = re.compile(rf"{lb}(?P<N>(?P<npre>{_PFX})[ ]?N[ ]?{n_cat})")
+        self._m_alone = re.compile(rf"{lb}(?P<M>(?P<mpre>{_PFX})[ ]?M[ ]?{m_cat})")
+        # The letters T, N and M find the places worth trying (a plain-character scan
+        # is far faster than trying the full pattern everywhere).
+        self._cands = {
+            "T": re.compile(rf"T(?=[ ]?(?:[0-4Xxa]|[iI][sS]|{ocr}))"),
+            "N": re.compile(rf"N(?=[ ]?(?:[0-3Xx]|{ocr}))"),
+            "M": re.compile(rf"M(?=[ ]?(?:[01Xx]|{ocr}))"),
+        }
+
+        def heading(name: str) -> tuple[Rx, Anchors]:
+            words = lex.phrases("tnm", name)
+            return Rx(rf"{alternation(words)}[ \t]{{0,3}}[:=\-]?[ \t]{{0,5}}"), Anchors(words)
+
+        self._heads = (
+            (*heading("t_headings"), re.compile(rf"(?P<T>{t_tok})"), "T"),
+            (*heading("n_headings"), re.compile(rf"(?P<N>{n_tok})"), "N"),
+            (*heading("m_headings"), re.compile(rf"(?P<M>{m_tok})"), "M"),
+        )
+        self._stage_head = Rx(rf"{alternation(lex.phrases('tnm', 'stage_headings'))}[^\n]{{0,40}}$")
+        self._clinical = re.compile(
+            rf"{alternation(lex.phrases('tnm', 'clinical_words'))}[^\n]{{0,12}}$", re.IGNORECASE
+        )
+
+    # -----------------------------------------------------------------------------
+    def read(self, region: Region) -> list[Value]:
+        body = region.body
+        if "T" not in body and "N" not in body and "M" not in body:
+            return []
+        found: list[tuple[str, Found]] = []
+        # Priority: headings, staging strings, lone prefixed N and M.
+        for head, at, token, axis in self._heads:
+            for h in head.match_at(region, at.positions(region)):
+                m = token.match(body, h.end())
+                if m is not None:
+                    f = self._category(m, axis, inherited="p", assumed=False)
+                    if f is not None:
+                        found.append((axis, f))
+        for m in self._candidates(self._string, "T", body):
+            found.extend(self._staging(m, region))
+        for pattern, axis in ((self._n_alone, "N"), (self._m_alone, "M")):
+            for m in self._candidates(pattern, axis, body):
+                if not m[axis.lower() + "pre"]:
+                    continue
+                f = self._category(m, axis, inherited=None, assumed=False)
+                if f is not None:
+                    found.append((axis, f))
+        keys = {"T": "pt", "N": "pn", "M": "pm"}
+        kept = keep_non_overlapping([f for _, f in found])
+        ids = {id(f) for f in kept}
+        out = []
+        for axis, f in found:
+            if id(f) in ids and f.value is not None:
+                out.append(region.found(keys[axis], f))
+        return out
+
+    def _candidates(
+        self, pattern: re.Pattern[str], letter: str, body: str
+    ) -> Iterator[re.Match[str]]:
+        """Matches of ``pattern`` around each T/N/M letter (a prefix starts up to 3 before)."""
+        last = 0
+        for c in self._cands[letter].finditer(body):
+            i = c.start()
+            if i < last:
+                continue
+            for start in range(max(last, i - 3), i + 1):
+                m = pattern.match(body, start)
+                if m is not None and m.end() > i:
+                    yield m
+                    last = m.end()
+                    break
+
+    def _staging(self, m: re.Match[str], region: Region) -> list[tuple[str, Found]]:
+        body = region.body
+        pre = (m["tpre"] or "").lower()
+        line_start = body.rfind("\n", 0, m.start()) + 1
+        # "pTNM: T2 N0 MX": the heading says pathological
+        headed = not pre and self._stage_head.search(
+            region, max(line_start, m.start() - 60), m.start()
+        )
+        if not m["N"] and not m["M"] and not pre and not headed:
+            return []  # a lone "T2" is too often something else (MRI, vertebra)
+        if pre and pre not in _PATHOLOGICAL:
+            # a clinical string: its parts are not pathological categories; keep the
+            # span so that "cN0" is not read alone either
+            return [("T", Found(m.start(), m.end(), None))]
+        if not pre and not headed:
+            if self._clinical.search(body, line_start, m.start()):
+                return [("T", Found(m.start(), m.end(), None))]
+            if any(c in self._ocr for c in (m["td"] or "", m["nd"] or "", m["md"] or "")):
+                return []  # OCR letters only where a prefix makes the string certain
+        inherited = pre or "p"
+        assumed = not pre and not headed
+        out: list[tuple[str, Found]] = []
+        for axis in ("T", "N", "M"):
+            if m[axis]:
+                f = self._category(m, axis, inherited=inherited, assumed=assumed)
+                if f is not None:
+                    out.append((axis, f))
+        return out
+
+    def _digit(self, ch: str, flags: list[str]) -> str:
+        if ch in self._ocr:
+            flags.append("ocr_corrected")
+            return self._ocr[ch]
+        return ch
+
+    def _category(
+        self, m: re.Match[str], axis: str, *, inherited: str | None, assumed: bool
+    ) -> Found | None:
+        a = axis.lower()
+        raw = m[axis]
+        written = (m[a + "pre"] or "").lower()
+        if written and written not in _PATHOLOGICAL and not (axis == "M" and written == "c"):
+            return Found(m.start(axis), m.end(axis), None)
+        prefix = written or inherited
+        if prefix is None:
+            return None
+        flags: list[str] = []
+        if assumed and not written:
+            flags.append("prefix_assumed")
+        cat = m[a + "c"]
+        value: str | None
+        if axis == "T":
+            value = self._t_value(m, flags)
+        elif axis == "N":
+            value = self._n_value(m, flags)
+        else:
+            value = self._m_value(cat, m["md"], m["msub"], written, flags)
+            prefix = "c" if value is not None and value.startswith("M0") else prefix
+        if value is None:
+            return None
+        detail: dict[str, Any] = {"prefix": written, "raw": raw}
+        return Found(m.start(axis), m.end(axis), f"{prefix}{value}", tuple(flags), detail)
+
+    def _t_value(self, m: re.Match[str], flags: list[str]) -> str | None:
+        cat = m["tc"]
+        mult = (m["tm"] or "").replace(" ", "")
+        if cat.lower() == "is":
+            return "Tis" + mult
+        if cat in ("X", "x"):
+            return "TX"
+        if cat == "a":
+            return "Ta" + mult
+        digit = self._digit(m["td"], flags)
+        sub = (m["tsub"] or "").replace(" ", "").lower()
+        if digit == "0" and sub:
+            return None  # T0 has no subcategories
+        if sub == "mi" and digit != "1":
+            return None  # only T1mi exists
+        if len(sub) == 2 and sub[1].isdigit() and sub[0] not in "ab":
+            return None  # numbered subdivisions exist for a/b only (e.g. cervix T1a1, T1b2)
+        return f"T{digit}{sub}{mult}"
+
+    def _n_value(self, m: re.Match[str], flags: list[str]) -> str | None:
+        cat = m["nc"]
+        suffix = (m["nsuf"] or "").replace(" ", "").lower()
+        if cat in ("X", "x"):
+            return "NX" + suffix
+        digit = self._digit(m["nd"], flags)
+        sub = (m["nsub"] or "").lower()
+        if digit == "0" and sub:
+            return None
+        if sub == "mi" and digit != "1":
+            return None  # only N1mi exists
+        if digit != "0" and any(s in suffix for s in ("(i", "(mol")):
+            return None  # isolated tumour cells / molecular findings qualify N0 only
+        return f"N{digit}{sub}{suffix}"
+
+    def _m_value(
+        self, cat: str, digit_raw: str | None, sub_raw: str | None, written: str, flags: list[str]
+    ) -> str | None:
+        if cat in ("X", "x"):
+            return None  # MX is not a valid category (AJCC 7th and 8th editions)
+        digit = self._digit(digit_raw or "", flags)
+        sub = (sub_raw or "").lower()
+        if digit == "0":
+            if sub:
+                return None
+            if written in _PATHOLOGICAL:
+                flags.append("pm0_not_valid")  # pM0 does not exist; M0 is clinical
+            return "M0"
+        return f"M{digit}{sub}"
