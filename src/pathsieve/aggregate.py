@@ -230,6 +230,8 @@ _ORDINAL: dict[str, Any] = {
     "lymphovascular_invasion": {"present": 1, "absent": 0},
     "her2_status": {"positive": 2, "equivocal": 1, "negative": 0},
 }
+#: Marsh–Oberhuber types in order; "3" is a type 3 with no stated subtype.
+_MARSH_ORDER = {"0": 0, "1": 1, "2": 2, "3": 3, "3a": 4, "3b": 5, "3c": 6, "4": 7}
 _MAX_NUMERIC = frozenset(
     {"grade_group", "nottingham_grade", "tumor_size_mm", "lymph_nodes_examined"}
 )
@@ -244,13 +246,9 @@ def _value_rank(v: Value) -> Any:
     if key in _ORDINAL:
         return _ORDINAL[key].get(str(v.value), -1)
     if key == "marsh_grade":
-        return (
-            ["0", "1", "2", "3a", "3b", "3c", "4"].index(str(v.value))
-            if str(v.value) in {"0", "1", "2", "3a", "3b", "3c", "4"}
-            else -1
-        )
+        return _MARSH_ORDER.get(str(v.value), -1)
     if key in ("pt", "pn", "pm"):
-        return str(v.value).lstrip("yrpm")
+        return str(v.value).lstrip("ycrpm")
     if key in _MAX_NUMERIC or key == "lymph_nodes_positive":
         try:
             return float(v.value)

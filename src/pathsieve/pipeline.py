@@ -17,7 +17,7 @@ from __future__ import annotations
 
 import bisect
 import itertools
-from collections.abc import Iterable, Sequence
+from collections.abc import Callable, Iterable, Sequence
 from dataclasses import replace
 from functools import lru_cache
 from typing import Any
@@ -31,27 +31,13 @@ from .assertion import AssertionEngine
 from .matcher import ConceptMatcher
 from .ontology import Ontology, load_ontology
 from .parts import find_parts
-from .records import DECIDING, Mention, Part, ReadReport, Section, Segment
+from .records import DECIDING, Assertion, Mention, Part, ReadReport, Section, Segment, Value
 from .schemes import Scheme, load_scheme
 from .sections import find_sections
 from .tokenizer import make_tokenizer
 from .values import extract_values
 
-__all__ = ["POLARITY_VALUES", "build_nlp", "read", "read_report"]
-
-#: Values whose polarity is the value itself ("no lymphovascular invasion" -> absent):
-#: a negation trigger must not drop them.
-POLARITY_VALUES = frozenset(
-    {
-        "lymphovascular_invasion",
-        "margin_status",
-        "er_status",
-        "pr_status",
-        "her2_status",
-        "lymph_nodes_positive",
-        "lymph_nodes_examined",
-    }
-)
+__all__ = ["build_nlp", "read", "read_report", "report_reader"]
 
 
 def _segments(text: str, sections: Sequence[Section], parts: Sequence[Part]) -> list[Segment]:
@@ -170,21 +156,38 @@ def make_parts(nlp: Language, name: str) -> Any:
 )
 def make_concepts(nlp: Language, name: str) -> Any:
     def component(doc: Doc) -> Doc:
-        st = _state(nlp)
-        text = doc.text
-        segments = _segments(text, doc._.ps_sections, doc._.ps_parts)
-        starts = [s.start for s in segments]
-        found = st.matcher.find(text)
-        mentions = []
-        for m in found:
-            seg = _locate(segments, starts, m.start)
-            mentions.append(replace(m, section=seg.section, part=seg.part))
-        doc._.ps_mentions = tuple(mentions)
-        doc._.ps_parts = tuple(_fill_part_concepts(st, doc._.ps_parts, mentions))
-        doc._.ps_segments = tuple(segments)
+        mentions, parts, segments = _concepts(
+            _state(nlp), doc.text, doc._.ps_sections, doc._.ps_parts
+        )
+        doc._.ps_mentions, doc._.ps_parts, doc._.ps_segments = mentions, parts, segments
         return doc
 
     return component
+
+
+def _concepts(
+    st: _State, text: str, sections: Sequence[Section], parts: Sequence[Part]
+) -> tuple[tuple[Mention, ...], tuple[Part, ...], tuple[Segment, ...]]:
+    """Concept mentions placed in their section and part; parts get their sites."""
+    segments = _segments(text, sections, parts)
+    starts = [s.start for s in segments]
+    mentions = []
+
+    def section_at(pos: int) -> str:
+        return _locate(segments, starts, pos).section
+
+    # the section at a short form helps choose among its senses
+    for m in st.matcher.find(text, section_at=section_at):
+        seg = _locate(segments, starts, m.start)
+        # built directly: dataclasses.replace costs several times more per mention
+        mentions.append(
+            Mention(
+                m.concept_id, m.label, m.text, m.start, m.end, seg.section, seg.part,
+                m.match, m.score, m.note,
+            )
+        )  # fmt: skip
+    filled = tuple(_fill_part_concepts(st, parts, mentions))
+    return tuple(mentions), filled, tuple(segments)
 
 
 def _fill_part_concepts(
@@ -204,9 +207,30 @@ def _fill_part_concepts(
     return out
 
 
-def _boundaries(doc: Doc) -> list[int]:
-    cuts = {s.start for s in doc._.ps_sections} | {p.start for p in doc._.ps_parts}
+def _boundaries(sections: Iterable[Section], parts: Iterable[Part]) -> list[int]:
+    cuts = {s.start for s in sections} | {p.start for p in parts}
     return sorted(c for c in cuts if c > 0)
+
+
+def _assertions(
+    st: _State, text: str, mentions: Sequence[Mention], boundaries: list[int]
+) -> tuple[Assertion, ...]:
+    spans = [(m.start, m.end) for m in mentions]
+    return tuple(st.engine.assess(text, spans, boundaries=boundaries) if spans else ())
+
+
+def _values(
+    st: _State, text: str, segments: Sequence[Segment], boundaries: list[int]
+) -> tuple[tuple[Value, ...], tuple[Assertion, ...]]:
+    regions = [(s.start, s.end, s.section, s.part) for s in segments]
+    values = extract_values(text, regions)
+    if not values:
+        return (), ()
+    # The readers refuse values inside negated statements and carry their own polarity
+    # ("no lymphovascular invasion" -> absent); the assertion of a value's span
+    # decides only whether it is current and about the patient.
+    asserted = st.engine.assess(text, [(v.start, v.end) for v in values], boundaries=boundaries)
+    return tuple(values), tuple(asserted)
 
 
 @Language.factory(
@@ -217,11 +241,8 @@ def _boundaries(doc: Doc) -> list[int]:
 )
 def make_assertion(nlp: Language, name: str) -> Any:
     def component(doc: Doc) -> Doc:
-        st = _state(nlp)
-        spans = [(m.start, m.end) for m in doc._.ps_mentions]
-        doc._.ps_assertions = tuple(
-            st.engine.assess(doc.text, spans, boundaries=_boundaries(doc)) if spans else ()
-        )
+        bounds = _boundaries(doc._.ps_sections, doc._.ps_parts)
+        doc._.ps_assertions = _assertions(_state(nlp), doc.text, doc._.ps_mentions, bounds)
         return doc
 
     return component
@@ -235,24 +256,10 @@ def make_assertion(nlp: Language, name: str) -> Any:
 )
 def make_values(nlp: Language, name: str) -> Any:
     def component(doc: Doc) -> Doc:
-        st = _state(nlp)
-        segments = doc._.ps_segments
-        regions = [(s.start, s.end, s.section, s.part) for s in segments]
-        values = extract_values(doc.text, regions)
-        if not values:
-            doc._.ps_values, doc._.ps_value_assertions = (), ()
-            return doc
-        asserted = st.engine.assess(
-            doc.text, [(v.start, v.end) for v in values], boundaries=_boundaries(doc)
+        bounds = _boundaries(doc._.ps_sections, doc._.ps_parts)
+        doc._.ps_values, doc._.ps_value_assertions = _values(
+            _state(nlp), doc.text, doc._.ps_segments, bounds
         )
-        kept, kept_assertions = [], []
-        for v, a in zip(values, asserted, strict=True):
-            if v.key not in POLARITY_VALUES and a.certainty == "absent":
-                continue  # e.g. a Gleason score inside a negated statement: read nothing
-            kept.append(v)
-            kept_assertions.append(a)
-        doc._.ps_values = tuple(kept)
-        doc._.ps_value_assertions = tuple(kept_assertions)
         return doc
 
     return component
@@ -301,6 +308,39 @@ def build_nlp(scheme: Scheme | str | None = None, *, ontology: Ontology | None =
     ):
         nlp.add_pipe(component)
     return nlp
+
+
+def report_reader(nlp: Language) -> Callable[[str], ReadReport]:
+    """A function reading a text with ``nlp``'s stages, without tokenizing it.
+
+    The stages work on the text and its character offsets, never on tokens, so
+    labelling skips the spaCy Doc (building its tokens is most of what
+    ``nlp(text)`` would cost) and returns the same :class:`ReadReport`.
+
+    >>> read_fast = report_reader(build_nlp("colorectal"))
+    >>> read_fast("DIAGNOSIS: Rectum, biopsy: adenocarcinoma.").mentions[-1].label
+    'adenocarcinoma'
+    """
+    st = _state(nlp)
+
+    def read_text(text: str) -> ReadReport:
+        sections = tuple(find_sections(text))
+        parts = tuple(find_parts(text, sections))
+        mentions, parts, segments = _concepts(st, text, sections, parts)
+        bounds = _boundaries(sections, parts)
+        values, value_assertions = _values(st, text, segments, bounds)
+        return ReadReport(
+            text=text,
+            sections=sections,
+            parts=parts,
+            mentions=mentions,
+            assertions=_assertions(st, text, mentions, bounds),
+            values=values,
+            value_assertions=value_assertions,
+            segments=segments,
+        )
+
+    return read_text
 
 
 @lru_cache(maxsize=8)
