@@ -48,7 +48,9 @@ class DemoResult:
                     f"{name:<11} {m.key:<30} {m.support:>4} {_f(m.precision)} {_f(m.recall)} {_f(m.f1)}"
                 )
             for vm in v.values:
-                lines.append(f"{name:<11} {vm.key:<30} {vm.n:>4} {'':>6} {'':>6} acc {_f(vm.accuracy)}")
+                lines.append(
+                    f"{name:<11} {vm.key:<30} {vm.n:>4} {'':>6} {'':>6} acc {_f(vm.accuracy)}"
+                )
         return "\n".join(lines)
 
 
@@ -82,6 +84,8 @@ def run_demo(
         f1 = v.micro.f1
         log(
             f"{name:<11} {len(group):>4} reports  labels: {labels}  evidence: {evidence}  "
-            f"micro-F1 vs gold: {f1:.3f}" if f1 is not None else f"{name}: no gold positives"
+            f"micro-F1 vs gold: {f1:.3f}"
+            if f1 is not None
+            else f"{name}: no gold positives"
         )
     return result

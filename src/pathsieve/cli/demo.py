@@ -12,7 +12,9 @@ __all__ = ["register", "run"]
 
 
 def register(sub: Any) -> None:
-    p = sub.add_parser("demo", help="label the bundled demo reports and score them", description=__doc__)
+    p = sub.add_parser(
+        "demo", help="label the bundled demo reports and score them", description=__doc__
+    )
     p.add_argument("--out", default="demo-output", help="output folder (default: demo-output)")
     p.add_argument("--examples", default=str(EXAMPLES), help=argparse.SUPPRESS)
     p.set_defaults(func=run)
