@@ -50,6 +50,8 @@ def _segments(text: str, sections: Sequence[Section], parts: Sequence[Part]) -> 
     points = sorted(c for c in cuts if 0 <= c <= len(text))
     sec_starts = [s.start for s in sections]
     single = len({p.label for p in parts}) <= 1
+    by_start = sorted(parts, key=lambda p: p.start)
+    part_starts = [p.start for p in by_start]
     out: list[Segment] = []
     for a, b in itertools.pairwise(points):
         if a == b:
@@ -57,10 +59,9 @@ def _segments(text: str, sections: Sequence[Section], parts: Sequence[Part]) -> 
         i = bisect.bisect_right(sec_starts, a) - 1
         kind = sections[i].kind if i >= 0 and a < sections[i].end else "other"
         label = ""
-        for p in parts:
-            if p.start <= a < p.end:
-                label = p.label
-                break
+        j = bisect.bisect_right(part_starts, a) - 1  # parts do not overlap
+        if j >= 0 and a < by_start[j].end:
+            label = by_start[j].label
         if single and parts and not label and kind in DECIDING:
             label = parts[0].label
         out.append(Segment(a, b, kind, label))
@@ -194,11 +195,14 @@ def _fill_part_concepts(
     st: _State, parts: Iterable[Part], mentions: Sequence[Mention]
 ) -> list[Part]:
     out = []
+    starts = [m.start for m in mentions]  # mentions are sorted by start
     for p in parts:
         if p.header_end <= p.start:
             out.append(p)
             continue
-        inside = [m.concept_id for m in mentions if p.start <= m.start and m.end <= p.header_end]
+        lo = bisect.bisect_left(starts, p.start)
+        hi = bisect.bisect_left(starts, p.header_end)
+        inside = [m.concept_id for m in mentions[lo:hi] if m.end <= p.header_end]
         sites = tuple(c for c in inside if st.site_root and st.ontology.is_a(c, st.site_root))
         procs = tuple(
             c for c in inside if st.procedure_root and st.ontology.is_a(c, st.procedure_root)
