@@ -15,7 +15,7 @@ from types import ModuleType
 
 import pytest
 
-from conftest import REPO, shared_file
+from shared_paths import REPO, shared_file
 
 pytestmark = pytest.mark.shared
 

@@ -196,7 +196,7 @@ def test_marsh_implications(grade: str, expected: set[str]) -> None:
 
 @pytest.mark.shared
 def test_keys_match_labels_md() -> None:
-    from conftest import SHARED
+    from shared_paths import SHARED
 
     spec = SHARED / "spec" / "LABELS.md"
     if not spec.exists():

@@ -21,7 +21,7 @@ from pathsieve.vocab import lexicon_path, ontology_path
 HERE = Path(__file__).resolve().parent
 sys.path.insert(0, str(HERE))  # the invented reports and fuzzy tables live beside the tests
 
-MINI_OBO = HERE / "data" / "mini.obo"
+from reading_support import MINI_OBO  # noqa: E402
 
 
 def _shipped_ontology_usable() -> bool:
@@ -42,13 +42,6 @@ def onto(request: pytest.FixtureRequest) -> Ontology:
 @pytest.fixture(scope="session")
 def mini() -> Ontology:
     return load_ontology(MINI_OBO)
-
-
-def concept(onto: Ontology, name: str) -> str:
-    """The id of the concept called ``name`` (name or synonym); fails loudly if absent."""
-    ids = onto.lookup(name)
-    assert ids, f"the ontology has no concept called {name!r}"
-    return ids[0]
 
 
 @pytest.fixture(scope="session")

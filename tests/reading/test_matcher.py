@@ -8,9 +8,9 @@ import pytest
 from fuzzy_cases import MISSPELLINGS, ORDINARY_SENTENCES, ORDINARY_WORDS
 from hypothesis import given, settings
 from hypothesis import strategies as st
+from reading_support import MINI_OBO, concept
 from reports import REPORTS
 
-from conftest import MINI_OBO, concept
 from pathsieve.abbreviations import AbbreviationDictionary
 from pathsieve.errors import ConfigError, InputError, VocabError
 from pathsieve.matcher import (

@@ -221,7 +221,7 @@ def test_short_forms_that_are_words_are_case_sensitive() -> None:
 
 @pytest.mark.shared
 def test_senses_agree_with_reference_list(capsys: pytest.CaptureFixture[str]) -> None:
-    from conftest import shared_file
+    from shared_paths import shared_file
 
     ref_path = shared_file("abbreviations", "pathology_abbreviations_berman.txt")
     reference: dict[str, list[str]] = defaultdict(list)
