@@ -353,6 +353,34 @@ def _stem(word: str) -> str:
     return word[:5]
 
 
+#: (senses, cues) -> the words each sense brings; the same few short forms recur in
+#: every report, and these sets were the bulk of choosing a sense.
+_Words = list[tuple[str, str]]  # (word, stem), sorted by word
+_SENSE_WORDS: dict[
+    tuple[tuple[Sense, ...], int], tuple[object, list[_Words], list[_Words], frozenset[str]]
+] = {}
+
+
+def _sense_words(
+    senses: tuple[Sense, ...], cues: Mapping[Sense, Collection[str]] | None
+) -> tuple[list[_Words], list[_Words], frozenset[str]]:
+    """Per sense: its expansion's cue words, its other cue words; and the stems all share."""
+    key = (senses, id(cues))
+    hit = _SENSE_WORDS.get(key)
+    if hit is not None and hit[0] is cues:  # the very same cue mapping, not a reused id
+        return hit[1], hit[2], hit[3]
+    own = [cue_words(s.expansion) for s in senses]
+    extra = [frozenset(cues.get(s, ())) if cues else frozenset() for s in senses]
+    everyone = [frozenset(_stem(w) for w in o | x) for o, x in zip(own, extra, strict=True)]
+    shared = frozenset.intersection(*everyone) if len(senses) > 1 else frozenset()
+    own_words = [[(w, _stem(w)) for w in sorted(o)] for o in own]
+    other_words = [[(w, _stem(w)) for w in sorted(x - o)] for o, x in zip(own, extra, strict=True)]
+    if len(_SENSE_WORDS) >= 4096:
+        _SENSE_WORDS.clear()
+    _SENSE_WORDS[key] = (cues, own_words, other_words, shared)
+    return own_words, other_words, shared
+
+
 def choose_sense(
     written: str,
     senses: Sequence[Sense],
@@ -385,10 +413,7 @@ def choose_sense(
     if not senses:
         return None
     near = frozenset(_stem(w) for w in neighbours)
-    own = [cue_words(s.expansion) for s in senses]
-    extra = [frozenset(cues.get(s, ())) if cues else frozenset() for s in senses]
-    everyone = [frozenset(_stem(w) for w in o | x) for o, x in zip(own, extra, strict=True)]
-    shared = frozenset.intersection(*everyone) if len(senses) > 1 else frozenset()
+    own, extra, shared = _sense_words(tuple(senses), cues)
     scored: list[tuple[int, int, Sense, list[str]]] = []
     for order, sense in enumerate(senses):
         total = 0
@@ -399,10 +424,8 @@ def choose_sense(
         if section and section in sense.sections:
             total += _SECTION_WEIGHT
             why.append(f"section {section}")
-        spelled = sorted(w for w in own[order] if _stem(w) in near and _stem(w) not in shared)
-        related = sorted(
-            w for w in extra[order] - own[order] if _stem(w) in near and _stem(w) not in shared
-        )
+        spelled = [w for w, st in own[order] if st in near and st not in shared]
+        related = [w for w, st in extra[order] if st in near and st not in shared]
         if spelled:
             total += min(_SPELLED_WEIGHT * len(spelled), _SPELLED_CAP)
         if related:

@@ -5,8 +5,14 @@ The rules of the label contract (LABELS.md):
 * only current mentions about the patient decide; historical, hypothetical and
   other-experiencer mentions stay in the evidence with their flags;
 * diagnosis, synoptic and addendum sections decide; comment and microscopic
-  text adds support (it decides a label no deciding section mentions);
-  clinical history and gross never decide while a deciding section exists;
+  text adds support (it decides a label no deciding section mentions), and
+  so does the headerless text that opens a report (real exports often lose
+  the diagnosis header) and a value in any "other" section (a staging line
+  cut off from its checklist); clinical history and gross never decide
+  while a deciding section exists;
+* where the deciding mentions of a label are only broad negations
+  ("lymph nodes negative for carcinoma"), a specific affirmation in
+  supporting text still counts;
 * an addendum that mentions a label wins over the original text for it;
 * a part's state is its most definite positive state among deciding mentions;
   absent only when every deciding mention is negated; affirmed and negated
@@ -102,7 +108,14 @@ def _negation_reach(scheme: Scheme, concept_id: str) -> tuple[tuple[str, ...], t
     return own, broad
 
 
-def _section_role(section: str, report: ReadReport) -> str:
+def _lead_end(report: ReadReport) -> int:
+    """Where the first section with a header starts (the text before it has none)."""
+    return next((s.start for s in report.sections if s.header), len(report.text))
+
+
+def _section_role(
+    section: str, report: ReadReport, start: int = -1, lead_end: int = -1, *, value: bool = False
+) -> str:
     if section in DECIDING:
         return "decide"
     if section in SUPPORTING:
@@ -110,6 +123,16 @@ def _section_role(section: str, report: ReadReport) -> str:
     if not report.has_deciding_section and section not in ("clinical_history",):
         # a report with no diagnosis section: its text is the diagnosis
         return "decide" if section != "gross" else "support"
+    if section == "other" and (value or 0 <= start < lead_end):
+        # Text before the first header: in exports the diagnosis often opens the
+        # report with its header lost to OCR or never written, while a later
+        # checklist or addendum has one.  It may add support, like a comment
+        # (practice).  So may a value anywhere outside clinical history and gross:
+        # a staging line or a checklist cut off from its header by OCR damage
+        # ("Specimen" ... "pN1: Metastasis in ..."); a value from a deciding
+        # section still wins.  Other mentions in headed "other" text (frozen
+        # sections, specimen lists) never decide.
+        return "support"
     return "none"
 
 
@@ -125,6 +148,7 @@ def aggregate(report: ReadReport, scheme: Scheme) -> CaseLabels:
         if p.label not in part_order:
             part_order.append(p.label)
 
+    lead_end = _lead_end(report)
     for m, a in zip(report.mentions, report.assertions, strict=True):
         broad: tuple[str, ...] = ()
         if a.certainty == "absent":
@@ -132,7 +156,7 @@ def aggregate(report: ReadReport, scheme: Scheme) -> CaseLabels:
         else:
             own = scheme.labels_for(m.concept_id)
         keys = own + broad
-        role = _section_role(m.section, report)
+        role = _section_role(m.section, report, m.start, lead_end)
         decides = bool(keys) and a.counts and role != "none"
         evidence.append(EvidenceRow("mention", m.part, keys, m, None, a, decides))
         if not decides:
@@ -144,7 +168,7 @@ def aggregate(report: ReadReport, scheme: Scheme) -> CaseLabels:
 
     values_by_part: dict[str, list[Value]] = defaultdict(list)
     for v, a in zip(report.values, report.value_assertions, strict=True):
-        role = _section_role(v.section, report)
+        role = _section_role(v.section, report, v.start, lead_end, value=True)
         decides = a.counts and role != "none"
         evidence.append(EvidenceRow("value", v.part, (v.key,), None, v, a, decides))
         if decides and v.key in scheme.value_keys:
@@ -155,6 +179,11 @@ def aggregate(report: ReadReport, scheme: Scheme) -> CaseLabels:
     parts: dict[str, PartLabels] = {label: PartLabels(label) for label in part_order}
     for (part, key), roles in votes.items():
         chosen = roles.get("decide") or roles.get("support") or []
+        if chosen and all(s == "absent" and b for s, _, b in chosen):
+            # Only broad negations decide here ("not involved by neoplasm"): they
+            # speak of a parent class, so a specific affirmation in supporting text
+            # of the same part still counts (and, being specific, wins).
+            chosen = chosen + [v for v in roles.get("support", []) if v[0] != "absent"]
         if not chosen:
             continue
         addenda = [v for v in chosen if v[1]]
@@ -194,6 +223,7 @@ def _apply_implications(
     scheme: Scheme, report: ReadReport, plist: PartLabels, evidence: list[EvidenceRow]
 ) -> None:
     onto = scheme.ontology
+    lead_end = _lead_end(report)
     for imp in scheme.implications:
         if imp.then_label in plist.states:
             continue
@@ -208,7 +238,7 @@ def _apply_implications(
                     and row.part == plist.part
                     and row.assertion.counts
                     and row.assertion.certainty in ("present", "likely")
-                    and _section_role(m.section, report) != "none"
+                    and _section_role(m.section, report, m.start, lead_end) != "none"
                     and onto.is_a(m.concept_id, imp.concept)
                 ):
                     why = f"{m.label} ({m.concept_id})"
@@ -269,8 +299,11 @@ def _pick_values(values: Sequence[Value]) -> dict[str, Value]:
     out: dict[str, Value] = {}
     for key, vs in by_key.items():
         if key == "grade_group":
+            # a stated group first, then one derived from a pattern pair, then one
+            # from a total alone (a pair says more than a total)
             stated = [v for v in vs if not v.detail.get("derived")]
-            vs = stated or vs
+            paired = [v for v in vs if v.detail.get("derived") and not v.detail.get("from_total")]
+            vs = stated or paired or vs
         best_pref = min(_SECTION_PREF.get(v.section, 3) for v in vs)
         pool = [v for v in vs if _SECTION_PREF.get(v.section, 3) == best_pref]
         if key in ("er_status", "pr_status"):

@@ -110,6 +110,14 @@ _LINE_RE = re.compile(
     r"|(?P<head>[ \t]*(?=[A-Z][A-Za-z /&()-]{0,40}:))"
     r")"
 )
+# A field name glued to the value before it by a form export ("Not
+# specifiedTumor site:"): a new field, so a new sentence.
+_GLUED_HEAD_RE = re.compile(
+    r"(?:(?<=[a-z]{3})|(?<=[A-Z]{3}))(?=[A-Z][a-z]{2,}(?: [A-Za-z]+){0,3} ?:)"
+)
+# A heading with nothing else on its line ("SOCIAL HISTORY:"), or after a wide
+# gap in flattened text ("...   SOCIAL HISTORY:").
+_BARE_HEAD_RE = re.compile(r"(?:^|(?<=  )|(?<=\t))[ \t]*[A-Z][A-Za-z /&()-]{0,40}:\Z")
 # In text whose line breaks were flattened to runs of spaces: a numbered item
 # ("Normal esophagus   2) Hiatal hernia") or a heading ("...   PLAN:  ").
 _FLAT_RE = re.compile(
@@ -492,12 +500,17 @@ class AssertionEngine:
                 if m.group("head") is not None:
                     # a heading right under an empty heading is its sub-heading
                     # ("SOCIAL HISTORY:  TOBACCO: quit"): the parent still governs it
+                    # -- but only when that line holds nothing else: after "Ethnicity:
+                    # Not Hispanic  Specific Ethnicity:" a new field starts afresh
                     k = start
                     while k > 0 and text[k - 1].isspace():
                         k -= 1
                     if k > 0 and text[k - 1] == ":":
-                        continue
+                        ls = text.rfind("\n", 0, k) + 1
+                        if _BARE_HEAD_RE.search(text[ls:k]):
+                            continue
                 spans.append((start, m.end()))
+        spans.extend((b, b) for b in map(_match_start, _GLUED_HEAD_RE.finditer(text)))
         if self._break_re is not None:
             spans.extend(m.span() for m in self._break_re.finditer(text))
         spans.sort()

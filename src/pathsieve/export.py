@@ -22,8 +22,10 @@ __all__ = [
     "UNCERTAIN_MODES",
     "error_rows",
     "evidence_rows",
+    "evidence_schema",
     "label_columns",
     "label_rows",
+    "label_schema",
 ]
 
 UNCERTAIN_MODES = ("drop", "positive", "negative", "soft")
@@ -63,6 +65,48 @@ def label_columns(scheme: Scheme, per: str = "case") -> list[str]:
         *scheme.value_keys,
         "flags",
     ]
+
+
+def label_schema(
+    scheme: Scheme, per: str = "case", *, states: bool = False, uncertain: str | None = None
+) -> Any:
+    """The pyarrow schema of a label table (fixed, so every Parquet chunk and
+    every cluster partition has the same column types whatever its rows hold)."""
+    import pyarrow as pa
+
+    # state words only when asked for and not binarised for training
+    score = pa.large_string() if states and uncertain is None else pa.float64()
+    return pa.schema(
+        [
+            (name, score if name in scheme.labels else pa.large_string())
+            for name in label_columns(scheme, per)
+        ]
+    )
+
+
+def evidence_schema() -> Any:
+    """The pyarrow schema of the evidence table."""
+    import pyarrow as pa
+
+    text = pa.large_string()
+    trigger = pa.struct(
+        [
+            ("text", pa.string()),
+            ("start", pa.int64()),
+            ("end", pa.int64()),
+            ("category", pa.string()),
+        ]
+    )
+    kinds = {
+        "labels": pa.list_(pa.string()),
+        "start": pa.int64(),
+        "end": pa.int64(),
+        "decides": pa.bool_(),
+        "triggers": pa.list_(trigger),
+        "score": pa.float64(),
+        "flags": pa.list_(pa.string()),
+    }
+    return pa.schema([(name, kinds.get(name, text)) for name in EVIDENCE_COLUMNS])
 
 
 def _cell(state: LabelState | None, *, states: bool, uncertain: str | None) -> Any:

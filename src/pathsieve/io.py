@@ -10,6 +10,7 @@ lost.  Outputs are written to a temporary file and renamed when complete.
 from __future__ import annotations
 
 import csv
+import hashlib
 import io
 import json
 import os
@@ -23,10 +24,16 @@ import pandas as pd
 from .errors import ConfigError, InputError
 
 __all__ = [
+    "CHUNK_ROWS",
     "OUTPUT_SUFFIXES",
+    "SeenIds",
     "TableWriter",
+    "case_id_of",
+    "csv_chunks",
+    "jsonl_chunks",
     "read_reports",
     "sniff_csv",
+    "txt_frame",
 ]
 
 CHUNK_ROWS = 2000
@@ -38,9 +45,25 @@ def _warn(message: str) -> None:
     print(f"pathsieve: {message}", file=sys.stderr)
 
 
+def _is_utf8(path: Path, block: int = 1 << 20) -> bool:
+    """Whether the whole file decodes as UTF-8, read in blocks (memory stays flat)."""
+    import codecs
+
+    decoder = codecs.getincrementaldecoder("utf-8")()
+    try:
+        with path.open("rb") as fh:
+            while data := fh.read(block):
+                decoder.decode(data)
+            decoder.decode(b"", final=True)
+    except UnicodeDecodeError:
+        return False
+    return True
+
+
 def sniff_csv(path: Path) -> tuple[str, str]:
     """Guess (encoding, delimiter) of a delimited text file."""
-    head = path.read_bytes()[:65536]
+    with path.open("rb") as fh:
+        head = fh.read(65536)
     try:
         sample = head.decode("utf-8")
         encoding = "utf-8"
@@ -52,11 +75,8 @@ def sniff_csv(path: Path) -> tuple[str, str]:
         else:
             sample = head.decode("latin-1")
             encoding = "latin-1"
-    if encoding == "utf-8":
-        try:
-            path.read_bytes().decode("utf-8")
-        except UnicodeDecodeError:
-            encoding = "latin-1"
+    if encoding == "utf-8" and not _is_utf8(path):
+        encoding = "latin-1"
     if path.suffix.lower() == ".tsv":
         return encoding, "\t"
     try:
@@ -66,8 +86,67 @@ def sniff_csv(path: Path) -> tuple[str, str]:
     return encoding, delim
 
 
+class SeenIds:
+    """The case ids read so far, for duplicate detection in constant memory per id.
+
+    A set of a million id strings takes some 90 MB; here the ids of earlier
+    chunks are kept as 128-bit BLAKE2 digests in one sorted array (16 bytes an
+    id; two different ids sharing a digest is beyond any realistic archive),
+    and only the current chunk's ids as strings, until :meth:`seal`.
+
+    >>> seen = SeenIds(); seen.add("S-1"); seen.seal()
+    >>> "S-1" in seen, "S-2" in seen
+    (True, False)
+    """
+
+    def __init__(self) -> None:
+        import numpy as np
+
+        self._np = np
+        self._sealed = np.empty(0, dtype="S16")
+        self._chunk: set[str] = set()
+
+    @staticmethod
+    def _digest(cid: str) -> bytes:
+        return hashlib.blake2b(cid.encode("utf-8", "surrogatepass"), digest_size=16).digest()
+
+    def __contains__(self, cid: object) -> bool:
+        if cid in self._chunk:
+            return True
+        if not isinstance(cid, str) or not len(self._sealed):
+            return False
+        d = self._digest(cid)
+        i = int(self._np.searchsorted(self._sealed, d))
+        # numpy hands back fixed-width bytes without their trailing NULs; digests are all
+        # 16 bytes long, so equal once stripped means equal
+        return i < len(self._sealed) and bytes(self._sealed[i]) == d.rstrip(b"\0")
+
+    def add(self, cid: str) -> None:
+        self._chunk.add(cid)
+
+    def seal(self) -> None:
+        """Fold the current chunk's ids into the digest array."""
+        if not self._chunk:
+            return
+        np = self._np
+        new = np.sort(np.array([self._digest(c) for c in self._chunk], dtype="S16"))
+        # merge into the sorted array: one copy, not a re-sort of everything seen
+        self._sealed = np.insert(self._sealed, np.searchsorted(self._sealed, new), new)
+        self._chunk = set()
+
+
+def case_id_of(cid: Any) -> str:
+    """A raw id cell as a case id: trimmed text, "" when missing (the row then gets ``row<N>``)."""
+    return "" if cid is None or (isinstance(cid, float) and pd.isna(cid)) else str(cid).strip()
+
+
 def _finish(
-    df: pd.DataFrame, id_col: str, text_col: str, source: Path, first_row: int, seen: set[str]
+    df: pd.DataFrame,
+    id_col: str,
+    text_col: str,
+    source: Path,
+    first_row: int,
+    seen: set[str] | SeenIds,
 ) -> pd.DataFrame:
     """Normalise a raw chunk into case_id, text, row, error columns."""
     cols = list(df.columns)
@@ -84,9 +163,7 @@ def _finish(
     for i, (cid, text) in enumerate(zip(ids.tolist(), texts.tolist(), strict=True)):
         row = first_row + i
         error = ""
-        case_id = (
-            "" if cid is None or (isinstance(cid, float) and pd.isna(cid)) else str(cid).strip()
-        )
+        case_id = case_id_of(cid)
         if isinstance(text, bytes):
             text = text.decode("utf-8", errors="replace")
         if text is None or (isinstance(text, float) and pd.isna(text)):
@@ -120,7 +197,7 @@ def read_reports(
     source = Path(path)
     if not source.exists():
         raise InputError("input not found; check the path", path=source)
-    seen: set[str] = set()
+    seen = SeenIds()
     if source.is_dir():
         yield from _read_folder(source, chunk_rows, seen)
         return
@@ -128,6 +205,7 @@ def read_reports(
     row = 1
     for raw in _raw_chunks(source, suffix, id_col, text_col, chunk_rows, warn):
         chunk = _finish(raw, id_col, text_col, source, row, seen)
+        seen.seal()
         row += len(chunk)
         yield chunk
 
@@ -144,16 +222,20 @@ def _raw_chunks(
         if suffix == ".parquet":
             import pyarrow.parquet as pq
 
-            pf = pq.ParquetFile(source)
+            # no pre-buffering: its read cache keeps every row group read so far (memory
+            # would grow with the file)
+            pf = pq.ParquetFile(source, pre_buffer=False)
             names = pf.schema_arrow.names
             wanted = [c for c in (id_col, text_col) if c in names]
             if len(wanted) < 2:
                 yield pd.DataFrame(columns=names)
                 return
             for batch in pf.iter_batches(batch_size=chunk_rows, columns=wanted):
-                yield batch.to_pandas()
+                # integers stay integers beside a null: an id reads "7", never "7.0"
+                # (which would depend on whether its chunk happened to hold a null)
+                yield batch.to_pandas(integer_object_nulls=True)
         elif suffix in (".jsonl", ".ndjson"):
-            yield from _read_jsonl(source, chunk_rows)
+            yield from jsonl_chunks(source, chunk_rows)
         elif suffix in (".xlsx", ".xls"):
             df = pd.read_excel(source, dtype=str)
             for i in range(0, max(len(df), 1), chunk_rows):
@@ -163,21 +245,39 @@ def _raw_chunks(
             if encoding != "utf-8":
                 warn(f"{source}: not valid UTF-8; read as Latin-1 (check accented characters)")
             width = _header_width(source, encoding, delim)
-            reader = pd.read_csv(
-                source,
-                sep=delim,
-                dtype=str,
-                keep_default_na=False,
-                encoding=encoding,
-                chunksize=chunk_rows,
-                on_bad_lines=lambda bad: _bad_line(source, bad, width, warn),
-                engine="python",
-            )
-            yield from reader
+            yield from csv_chunks(source, source, encoding, delim, width, chunk_rows, warn)
     except InputError:
         raise
     except (ValueError, OSError, pd.errors.ParserError) as exc:
         raise InputError(f"cannot read input: {exc}", path=source) from exc
+
+
+def csv_chunks(
+    data: Path | io.StringIO,
+    source: Path,
+    encoding: str,
+    delim: str,
+    width: int,
+    chunk_rows: int,
+    warn: Callable[[str], None] = _warn,
+) -> Iterator[pd.DataFrame]:
+    """Raw chunks of a delimited file (or of a slice of one, header first, as text).
+
+    One parser configuration for every reader, so the cluster engine, which
+    parses byte ranges of a file, reads exactly the rows a whole-file run does.
+    """
+    reader = pd.read_csv(
+        data,
+        sep=delim,
+        dtype=str,
+        keep_default_na=False,
+        encoding=encoding,
+        chunksize=chunk_rows,
+        on_bad_lines=lambda bad: _bad_line(source, bad, width, warn),
+        engine="python",
+        index_col=False,  # a row with extra fields must not turn the first column into an index
+    )
+    yield from reader
 
 
 def _header_width(source: Path, encoding: str, delim: str) -> int:
@@ -194,10 +294,16 @@ def _bad_line(source: Path, bad: list[str], width: int, warn: Callable[[str], No
     return (bad + [""] * width)[:width]
 
 
-def _read_jsonl(source: Path, chunk_rows: int) -> Iterator[pd.DataFrame]:
+def jsonl_chunks(
+    source: Path, chunk_rows: int, *, start: int = 0, end: int | None = None, first_line: int = 1
+) -> Iterator[pd.DataFrame]:
+    """Chunks of a JSONL file, or of the lines in bytes ``[start, end)`` of it."""
     rows: list[dict[str, Any]] = []
-    with source.open("r", encoding="utf-8", errors="replace") as fh:
-        for n, line in enumerate(fh, 1):
+    with source.open("rb") as raw:
+        raw.seek(start)
+        data: Any = raw if end is None else io.BytesIO(raw.read(end - start))
+        fh = io.TextIOWrapper(data, encoding="utf-8", errors="replace", newline=None)
+        for n, line in enumerate(fh, first_line):
             if not line.strip():
                 continue
             try:
@@ -210,28 +316,40 @@ def _read_jsonl(source: Path, chunk_rows: int) -> Iterator[pd.DataFrame]:
                 ) from exc
             rows.append(obj)
             if len(rows) >= chunk_rows:
-                yield pd.DataFrame(rows)
+                yield _json_frame(rows)
                 rows = []
     if rows:
-        yield pd.DataFrame(rows)
+        yield _json_frame(rows)
 
 
-def _read_folder(folder: Path, chunk_rows: int, seen: set[str]) -> Iterator[pd.DataFrame]:
+def _json_frame(rows: list[dict[str, Any]]) -> pd.DataFrame:
+    # object columns keep each value as parsed: an integer id reads "7", never "7.0"
+    # because another row of its chunk lacks the id
+    return pd.DataFrame(rows, dtype=object)
+
+
+def _read_folder(folder: Path, chunk_rows: int, seen: SeenIds) -> Iterator[pd.DataFrame]:
     files = sorted(p for p in folder.iterdir() if p.suffix.lower() == ".txt" and p.is_file())
     if not files:
         raise InputError("folder holds no .txt files", path=folder)
     for i in range(0, len(files), chunk_rows):
         batch = files[i : i + chunk_rows]
-        texts = []
-        for p in batch:
-            data = p.read_bytes()
-            try:
-                texts.append(data.decode("utf-8"))
-            except UnicodeDecodeError:
-                _warn(f"{p}: not valid UTF-8; read as Latin-1")
-                texts.append(data.decode("latin-1"))
-        raw = pd.DataFrame({"case_id": [p.stem for p in batch], "text": texts})
-        yield _finish(raw, "case_id", "text", folder, i + 1, seen)
+        chunk = _finish(txt_frame(batch), "case_id", "text", folder, i + 1, seen)
+        seen.seal()
+        yield chunk
+
+
+def txt_frame(files: list[Path]) -> pd.DataFrame:
+    """``case_id`` (file stem) and ``text`` of some .txt files (UTF-8, else Latin-1)."""
+    texts = []
+    for p in files:
+        data = p.read_bytes()
+        try:
+            texts.append(data.decode("utf-8"))
+        except UnicodeDecodeError:
+            _warn(f"{p}: not valid UTF-8; read as Latin-1")
+            texts.append(data.decode("latin-1"))
+    return pd.DataFrame({"case_id": [p.stem for p in files], "text": texts})
 
 
 class TableWriter:
@@ -241,7 +359,7 @@ class TableWriter:
     clean close, so an interrupted run never leaves a table that looks complete.
     """
 
-    def __init__(self, path: str | Path) -> None:
+    def __init__(self, path: str | Path, *, schema: Any = None) -> None:
         self.path = Path(path)
         self.suffix = self.path.suffix.lower()
         if self.suffix not in OUTPUT_SUFFIXES:
@@ -253,7 +371,7 @@ class TableWriter:
             raise ConfigError(f"output folder {parent} is not writable")
         self.tmp = self.path.with_name(self.path.name + ".partial")
         self._parquet: Any = None
-        self._schema: Any = None
+        self._schema: Any = schema  # a pyarrow schema fixes Parquet column types up front
         self._fh: io.TextIOBase | None = None
         self._header_done = False
         self.rows = 0
@@ -263,12 +381,13 @@ class TableWriter:
             import pyarrow as pa
             import pyarrow.parquet as pq
 
-            if self._parquet is None:
+            if self._schema is None:
                 table = pa.Table.from_pandas(df, preserve_index=False)
                 self._schema = table.schema
-                self._parquet = pq.ParquetWriter(self.tmp, self._schema)
             else:
                 table = pa.Table.from_pandas(df, schema=self._schema, preserve_index=False)
+            if self._parquet is None:
+                self._parquet = pq.ParquetWriter(self.tmp, table.schema)
             self._parquet.write_table(table)
         else:
             if self._fh is None:
@@ -307,8 +426,8 @@ class TableWriter:
             self.abort()
 
 
-def _jsonable(rec: dict[str, Any]) -> dict[str, Any]:
-    out = {}
+def _jsonable(rec: dict[Any, Any]) -> dict[Any, Any]:
+    out: dict[Any, Any] = {}
     for k, v in rec.items():
         if isinstance(v, float) and v != v:
             out[k] = None

@@ -16,10 +16,10 @@ from typing import Any
 
 import pandas as pd
 
-from .aggregate import CaseLabels, aggregate
+from .aggregate import CaseLabels, _negation_reach, aggregate
 from .export import EVIDENCE_COLUMNS, error_rows, evidence_rows, label_columns, label_rows
 from .ontology import Ontology, load_ontology
-from .pipeline import ReadReport, build_nlp
+from .pipeline import ReadReport, build_nlp, report_reader
 from .records import CERTAINTY_SCORE
 from .schemes import Scheme, load_scheme
 
@@ -90,6 +90,24 @@ class LabeledReport:
         )
 
 
+def bears_on_labels(scheme: Scheme, concept_id: str) -> bool:
+    """Whether a mention of ``concept_id`` can change a label table, whatever its assertion.
+
+    It can when it counts for a label, when its negation reaches a label, or
+    when it sets off an implication: the ways :func:`~pathsieve.aggregate.aggregate`
+    uses a mention.  Any other (a site, a procedure) is evidence only.  A test
+    holds label tables with and without this shortcut identical.
+    """
+    own, broad = _negation_reach(scheme, concept_id)
+    if own or broad:
+        return True
+    onto = scheme.ontology
+    return any(
+        imp.concept is not None and onto.is_a(concept_id, imp.concept)
+        for imp in scheme.implications
+    )
+
+
 class Labeler:
     """Label reports with one scheme; the pipeline is built once and reused."""
 
@@ -97,10 +115,24 @@ class Labeler:
         onto = ontology or (scheme.ontology if isinstance(scheme, Scheme) else load_ontology())
         self.scheme = scheme if isinstance(scheme, Scheme) else load_scheme(scheme, onto)
         self.nlp = build_nlp(self.scheme, ontology=onto)
+        self._read = report_reader(self.nlp)
+        # A label table needs the scheme's value keys and the mentions that can change a
+        # label; the rest is evidence only, and a run writing no evidence skips it.
+        relevant: dict[str, bool] = {}
+
+        def keep(cid: str) -> bool:
+            hit = relevant.get(cid)
+            if hit is None:
+                hit = relevant[cid] = bears_on_labels(self.scheme, cid)
+            return hit
+
+        self._read_for_labels = report_reader(
+            self.nlp, value_keys=self.scheme.value_keys, keep_mention=keep
+        )
 
     def read(self, text: str) -> ReadReport:
-        report: ReadReport = self.nlp(text)._.pathsieve
-        return report
+        """The pipeline's records for one text (the spaCy Doc is not built)."""
+        return self._read(text)
 
     def label_report(self, text: str) -> CaseLabels:
         return aggregate(self.read(text), self.scheme)
@@ -138,7 +170,11 @@ class Labeler:
                 rows += error_rows(case_id, error, self.scheme, per=per)
                 continue
             try:
-                result = self.label_report(text)
+                result = (
+                    self.label_report(text)
+                    if evidence
+                    else aggregate(self._read_for_labels(text), self.scheme)
+                )
             except Exception as exc:  # one bad report never stops a run
                 rows += error_rows(
                     case_id,

@@ -28,7 +28,10 @@
   "0" for "o", "v" for "y") spells a vocabulary word (score 95).  Two
   neighbouring words are joined when together they spell a vocabulary word
   ("adeno carcinoma", "car.cinoma"), and a word that is two vocabulary words
-  run together is split.  The corrected text is matched again with the exact
+  run together is split.  Inside a multi-word name whose other words are
+  written right, an ordinary or misread word one or two letters off the
+  name's word is read as it ("squamous call carcinoma", "squamous 0e11
+  carcinoma").  The corrected text is matched again with the exact
   automaton, so a correction yields a mention only when a whole name or
   synonym results, using the correction whole.  A negation glued to a word
   ("nomalignancy") is never corrected away.
@@ -58,6 +61,7 @@ from typing import Any
 
 import ahocorasick
 from rapidfuzz import fuzz, process
+from rapidfuzz.distance import Levenshtein
 
 from .abbreviations import (
     AbbreviationDictionary,
@@ -121,6 +125,13 @@ _OCR_CONFUSIONS: tuple[tuple[str, str], ...] = (
 # one dropped letter in a long word, above any sensible cut-off.
 _OCR_SCORE = 95.0
 _OCR_FLOOR = 70.0
+# In-context correction: a word of a multi-word name, the other words written
+# right, may be misread by this many letters (OCR "squamous call carcinoma",
+# "squamcus cell carcinoma"); names of up to four words, open words of four or
+# more letters.  Digits OCR makes of letters are read as those letters first.
+_SLOT_MAX_WORDS = 4
+_SLOT_MIN_LENGTH = 4
+_SLOT_DIGITS = str.maketrans({"0": "o", "1": "l", "5": "s", "8": "b"})
 # Words that, glued to a finding, carry its negation ("no", "not", "negative for").
 _GLUED_PREFIXES = ("no", "not", "for")
 
@@ -270,6 +281,15 @@ class _Index:
     join_heads: frozenset[str]
     join_tails: frozenset[str]
     ambiguous_keys: dict[str, tuple[str, ...]] = field(default_factory=dict)
+    # (number of words, slot index, the other words) -> (slot word, key) of the
+    # multi-word names with that shape
+    slots: dict[tuple[int, int, tuple[str, ...]], list[tuple[str, str]]] = field(
+        default_factory=dict
+    )
+    # the open words by (word right before / after them, first or "-" + last letter):
+    # a cheap first test before the neighbours are compared
+    slot_left: dict[tuple[str, str], tuple[str, ...]] = field(default_factory=dict)
+    slot_right: dict[tuple[str, str], tuple[str, ...]] = field(default_factory=dict)
 
 
 def _build_index(
@@ -390,6 +410,28 @@ def _build_index(
         for n in range(len(t) - 2, len(t) + 3):
             by_first.setdefault((n, t[0]), []).append(t)
             by_last.setdefault((n, t[-2:]), []).append(t)
+    # Multi-word names with one word left open: "squamous _ carcinoma" -> "cell".
+    slots: dict[tuple[int, int, tuple[str, ...]], list[tuple[str, str]]] = {}
+    slot_left: dict[tuple[str, str], set[str]] = {}
+    slot_right: dict[tuple[str, str], set[str]] = {}
+    for key in primary:
+        name_words = key.split()
+        if not 2 <= len(name_words) <= _SLOT_MAX_WORDS or not all(w.isalpha() for w in name_words):
+            continue
+        for i, w in enumerate(name_words):
+            others = tuple(name_words[:i] + name_words[i + 1 :])
+            if len(w) < _SLOT_MIN_LENGTH or max(map(len, others)) < _SLOT_MIN_LENGTH + 1:
+                continue
+            slots.setdefault((len(name_words), i, others), []).append((w, key))
+            # only a neighbour of four or more letters is a test ("of", "in" are
+            # beside every other word)
+            before = name_words[i - 1] if i > 0 else ""
+            after = name_words[i + 1] if i + 1 < len(name_words) else ""
+            for end in (w[0], "-" + w[-1]):
+                if len(before) >= _SLOT_MIN_LENGTH:
+                    slot_left.setdefault((before, end), set()).add(w)
+                if len(after) >= _SLOT_MIN_LENGTH:
+                    slot_right.setdefault((after, end), set()).add(w)
     join_ends = frozenset((t[:2], t[-2:]) for t in target_text)
     # the first and last three letters of the targets (a two-letter fragment is
     # compared with the first or last two)
@@ -435,6 +477,9 @@ def _build_index(
         join_heads=join_heads,
         join_tails=join_tails,
         ambiguous_keys={k: tuple(sorted(v)) for k, v in ambiguous.items()},
+        slots=slots,
+        slot_left={k: tuple(sorted(v)) for k, v in slot_left.items()},
+        slot_right={k: tuple(sorted(v)) for k, v in slot_right.items()},
     )
 
 
@@ -713,8 +758,10 @@ class ConceptMatcher:
 
     def _fuzzy(self, norm: NormText, padded: str) -> list[_Cand]:
         idx = self._index
-        unknown = set(padded.split()) - idx.known_words
-        if not unknown:
+        distinct = set(padded.split())
+        unknown = distinct - idx.known_words
+        in_context = self._slot_corrections(padded, distinct - idx.vocab_words)
+        if not unknown and not in_context:
             return []
         heads, tails = idx.join_heads, idx.join_tails
         corrections: list[_Correction] = []
@@ -734,6 +781,7 @@ class ConceptMatcher:
                 if c is not None:
                     corrections.append(c)
                 at = padded.find(needle, at + len(word) + 1)
+        corrections += in_context
         if not corrections:
             return []
         # keep the best correction where two overlap
@@ -744,6 +792,95 @@ class ConceptMatcher:
                 kept.append(c)
         kept.sort(key=lambda c: c.start)
         return self._rematch(norm, padded, kept)
+
+    def _slot_corrections(self, padded: str, candidates: set[str]) -> list[_Correction]:
+        """Misread words inside a multi-word name whose other words are written right.
+
+        A word that is no vocabulary word ("call", "toll", "squamcus", "0e11") is
+        read as the open word of a name when the words around it spell the rest
+        of that name exactly and it is within one letter of the open word (two
+        for words of seven letters or more) sharing its first or last letter:
+        "squamous call carcinoma" -> "squamous cell carcinoma".  Only words
+        separated by single spaces (no punctuation) make a name.
+        """
+        idx = self._index
+        if not idx.slots:
+            return []
+        out: list[_Correction] = []
+        by_left, by_right = idx.slot_left, idx.slot_right
+        # One split: an empty token stands for punctuation (a double space), so
+        # a word's neighbours in the list are its neighbours in a name or "".
+        tokens = padded.split(" ")
+        pos = 0
+        last = len(tokens) - 1
+        for j, word in enumerate(tokens):
+            start = pos
+            pos += len(word) + 1
+            if word not in candidates or len(word) < _SLOT_MIN_LENGTH - 1:
+                continue
+            folded = word.translate(_SLOT_DIGITS)
+            if not folded.isalpha():
+                continue
+            # a name needs a word of it right beside the open word, sharing the
+            # open word's first or last letter
+            left = tokens[j - 1] if j > 0 else ""
+            right = tokens[j + 1] if j < last else ""
+            head, tail = folded[0], "-" + folded[-1]
+            near = (
+                *by_left.get((left, head), ()),
+                *by_left.get((left, tail), ()),
+                *by_right.get((right, head), ()),
+                *by_right.get((right, tail), ()),
+            )
+            if not near:
+                continue
+            reach = _slot_reach(folded)
+            if any(Levenshtein.distance(folded, t, score_cutoff=reach) <= reach for t in near):
+                c = self._slot_at(padded, start, start + len(word))
+                if c is not None:
+                    out.append(c)
+        return out
+
+    def _slot_at(self, padded: str, s: int, e: int) -> _Correction | None:
+        """The best name the word at ``padded[s:e]`` completes with its neighbours."""
+        idx = self._index
+        word = padded[s:e]
+        folded = word.translate(_SLOT_DIGITS)
+        reach = _slot_reach(folded)
+        # up to three words either side, stopping at punctuation (a double space)
+        before: list[tuple[int, str]] = []
+        pos = s - 1
+        while len(before) < _SLOT_MAX_WORDS - 1 and pos > 0 and padded[pos - 1] != " ":
+            start = padded.rfind(" ", 0, pos) + 1
+            before.insert(0, (start, padded[start:pos]))
+            pos = start - 1
+        after: list[tuple[int, str]] = []
+        pos = e + 1
+        while len(after) < _SLOT_MAX_WORDS - 1 and pos < len(padded) and padded[pos] != " ":
+            end = padded.find(" ", pos)
+            end = len(padded) if end < 0 else end
+            after.append((end, padded[pos:end]))
+            pos = end + 1
+        best: _Correction | None = None
+        for k in range(2, _SLOT_MAX_WORDS + 1):
+            for i in range(k):
+                if i > len(before) or k - 1 - i > len(after):
+                    continue
+                left = before[len(before) - i :]
+                right = after[: k - 1 - i]
+                others = tuple(w for _, w in left) + tuple(w for _, w in right)
+                for target, key in idx.slots.get((k, i, others), ()):
+                    if target[0] != folded[0] and target[-1] != folded[-1]:
+                        continue
+                    if Levenshtein.distance(folded, target, score_cutoff=reach) > reach:
+                        continue
+                    start = left[0][0] if left else s
+                    end = right[-1][0] if right else e
+                    written = padded[start:end]
+                    score = round(fuzz.ratio(written, key), 1)
+                    if best is None or (score, end - start) > (best.score, best.end - best.start):
+                        best = _Correction(start, end, key, score, written)
+        return best
 
     def _correct_at(self, padded: str, s: int, e: int, single: bool) -> _Correction | None:
         """The best correction of the unknown word at ``padded[s:e]`` (maybe with a neighbour).
@@ -941,6 +1078,11 @@ class ConceptMatcher:
         if len(w) < self.fuzzy_min_length or " " in w:
             return None
         return self._closest(w)
+
+
+def _slot_reach(word: str) -> int:
+    """Letters an open word of a name may differ by: one, two from seven letters on."""
+    return 2 if len(word) >= 7 else 1
 
 
 def _whole_token_starts(text: str, token: str) -> list[int]:

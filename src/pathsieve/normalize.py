@@ -19,10 +19,18 @@ What changes, in this order of precedence:
   NFKC-folded and case-folded on its own, so "ﬁ" -> "fi", "ß" -> "ss",
   "e\\u0301" -> "é", no-break space -> space;
 * **case** - ASCII letters are lower-cased (the same as case folding for ASCII);
-* **separators** - hyphens, dashes and underscores become a space, so
-  ``high-grade`` == ``high grade``;
+* **separators** - hyphens, dashes, underscores and round or square
+  brackets become a space, so ``high-grade`` == ``high grade`` and a
+  bracketed word inside a name reads as part of it (``squamous cell
+  (epidermoid) carcinoma``);
 * **whitespace** - every run of whitespace and separators (new lines
-  included: ``"high - grade"``, ``"\\r\\n\\r\\n"``) becomes one space.
+  included: ``"high - grade"``, ``"\\r\\n\\r\\n"``) becomes one space;
+* **run-together words** - a space goes in where a word of three or more
+  lower-case letters runs into a capitalised one (``AdenocarcinomaHistologic
+  grade``, ``CARCINOMAGender``: the join a form export or OCR makes of a
+  value and the next field's name), so that each word can match.  Shorter
+  heads ("McDonald", "pTis", "ypT2") and plural short forms ("NSCLCs") are
+  left alone.
 
 Split words (``adeno carcinoma``) and OCR confusions (``carcinorna``) are not
 repaired here: the matcher handles them, because only it knows the vocabulary.
@@ -54,7 +62,7 @@ __all__ = ["NormText", "fold_char", "normalize"]
 
 _COMBINING = "\u0300-\u036f\u1ab0-\u1aff\u1dc0-\u1dff\u20d0-\u20ff\ufe20-\ufe2f"
 _DASHES = "\u2010\u2011\u2012\u2013\u2014\u2015\u2212\ufe58\ufe63\uff0d"
-_SEPARATORS = r"\s_\-" + _DASHES
+_SEPARATORS = r"\s_\-()\[\]" + _DASHES
 
 # First pass (only for non-ASCII text or text with a hyphen at a line end): a
 # hyphen at a line end with the break around it, or a non-ASCII character with
@@ -62,6 +70,11 @@ _SEPARATORS = r"\s_\-" + _DASHES
 # Two expressions, not one alternation: each starts with something the regular
 # expression engine can skip to quickly, which an alternation cannot.
 _WRAP_RE = re.compile(r"-[ \t]*\r?\n[ \t]*")
+# A word run into a capitalised one: the capital starts a new word (the capital
+# is the event; it becomes a space and itself).  After lower case
+# ("colonHistologic"), or after a run of capitals when two or more lower-case
+# letters follow ("CARCINOMAGender"; "NSCLCs" stays whole).
+_CAMEL_RE = re.compile(r"(?<=[a-z]{3})[A-Z](?=[a-z])|(?<=[A-Z]{3})[A-Z](?=[a-z]{2})")
 _NON_ASCII_RE = re.compile(rf"[^\x00-\x7f][{_COMBINING}]*")
 _SEP_RUN_RE = re.compile(rf"[{_SEPARATORS}]*")
 _LEFT_WORD_RE = re.compile(r"[A-Za-z]+$")
@@ -71,7 +84,7 @@ _SPACE_RUN_RE = re.compile(r"  +")
 
 # ASCII fold table: upper -> lower; separators and whitespace -> space.
 _ASCII_TABLE: dict[int, int | str] = {c: c + 32 for c in range(ord("A"), ord("Z") + 1)}
-_ASCII_TABLE.update({ord(c): " " for c in "-_\t\n\r\f\v\x1c\x1d\x1e\x1f"})
+_ASCII_TABLE.update({ord(c): " " for c in "-_()[]\t\n\r\f\v\x1c\x1d\x1e\x1f"})
 _RARE_SPACES = "\f\v\x1c\x1d\x1e\x1f"
 # After NFKC and case folding, Unicode hyphens and dashes become a space too.
 _UNI_TABLE = {ord(c): " " for c in _DASHES}
@@ -179,7 +192,11 @@ def normalize(text: str, *, known_words: Collection[str] | None = None) -> NormT
     """
     maps: list[_Map] = []
     work = text
-    if not text.isascii() or _WRAP_RE.search(text) is not None:
+    if (
+        not text.isascii()
+        or _WRAP_RE.search(text) is not None
+        or _CAMEL_RE.search(text) is not None
+    ):
         work, first = _first_pass(text, known_words)
         if first is not None:
             maps.append(first)
@@ -214,6 +231,8 @@ def _fold_ascii(s: str) -> str:
     low = (
         low.replace("-", " ")
         .replace("_", " ")
+        .replace("(", " ")
+        .replace(")", " ")
         .replace("\n", " ")
         .replace("\t", " ")
         .replace("\r", " ")
@@ -221,6 +240,8 @@ def _fold_ascii(s: str) -> str:
     for c in _RARE_SPACES:
         if c in low:
             low = low.replace(c, " ")
+    if "[" in low or "]" in low:
+        low = low.replace("[", " ").replace("]", " ")
     return low
 
 
@@ -234,13 +255,16 @@ def _first_pass(text: str, known_words: Collection[str] | None) -> tuple[str, _M
     npos = 0  # length of the output so far
     opos = 0  # source offset already consumed
     events = [m.span() for m in _WRAP_RE.finditer(text)]
+    events += [m.span() for m in _CAMEL_RE.finditer(text)]
     if not text.isascii():
         events += [m.span() for m in _NON_ASCII_RE.finditer(text)]
-        events.sort()
+    events.sort()
     for s, e in events:
         if s < opos:
             continue  # inside a separator run swallowed by the previous event
-        if text[s] == "-":
+        if "A" <= text[s] <= "Z":
+            out = " " + text[s]  # run-together words: a space where none was written
+        elif text[s] == "-":
             right = _RIGHT_WORD_RE.match(text, e)
             left = _LEFT_WORD_RE.search(text, max(opos, s - 64), s)
             if right and left and _join(left.group(), right.group(), known_words):

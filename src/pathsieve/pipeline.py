@@ -224,10 +224,14 @@ def _assertions(
 
 
 def _values(
-    st: _State, text: str, segments: Sequence[Segment], boundaries: list[int]
+    st: _State,
+    text: str,
+    segments: Sequence[Segment],
+    boundaries: list[int],
+    keys: frozenset[str] | None = None,
 ) -> tuple[tuple[Value, ...], tuple[Assertion, ...]]:
     regions = [(s.start, s.end, s.section, s.part) for s in segments]
-    values = extract_values(text, regions)
+    values = extract_values(text, regions, keys=keys)
     if not values:
         return (), ()
     # The readers refuse values inside negated statements and carry their own polarity
@@ -314,25 +318,37 @@ def build_nlp(scheme: Scheme | str | None = None, *, ontology: Ontology | None =
     return nlp
 
 
-def report_reader(nlp: Language) -> Callable[[str], ReadReport]:
+def report_reader(
+    nlp: Language,
+    *,
+    value_keys: Iterable[str] | None = None,
+    keep_mention: Callable[[str], bool] | None = None,
+) -> Callable[[str], ReadReport]:
     """A function reading a text with ``nlp``'s stages, without tokenizing it.
 
     The stages work on the text and its character offsets, never on tokens, so
     labelling skips the spaCy Doc (building its tokens is most of what
     ``nlp(text)`` would cost) and returns the same :class:`ReadReport`.
+    ``value_keys`` runs only the value readers of those keys (a label table
+    needs its scheme's value keys only; evidence wants every value), and
+    ``keep_mention(concept_id)`` drops the other mentions before they are
+    assessed (a site or a procedure never changes a label).
 
     >>> read_fast = report_reader(build_nlp("colorectal"))
     >>> read_fast("DIAGNOSIS: Rectum, biopsy: adenocarcinoma.").mentions[-1].label
     'adenocarcinoma'
     """
     st = _state(nlp)
+    keys = frozenset(value_keys) if value_keys is not None else None
 
     def read_text(text: str) -> ReadReport:
         sections = tuple(find_sections(text))
         parts = tuple(find_parts(text, sections))
         mentions, parts, segments = _concepts(st, text, sections, parts)
+        if keep_mention is not None:
+            mentions = tuple(m for m in mentions if keep_mention(m.concept_id))
         bounds = _boundaries(sections, parts)
-        values, value_assertions = _values(st, text, segments, bounds)
+        values, value_assertions = _values(st, text, segments, bounds, keys)
         return ReadReport(
             text=text,
             sections=sections,

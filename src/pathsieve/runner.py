@@ -2,29 +2,45 @@
 
 Every input row yields exactly one output row (per case) in input order, with
 ``status`` ok or error; the evidence table holds one row per mention and value.
-``workers > 1`` labels chunks in worker processes; the output is identical to a
-one-process run (chunks are written back in input order).
+
+Memory stays flat whatever the input size: chunks are read lazily, at most a
+few are in flight, and each is written out as soon as it (and every chunk
+before it) is labelled.  ``workers > 1`` labels chunks in worker processes;
+the output is identical, byte for byte, to a one-process run because chunks
+are written back in input order.  ``engine="dask"`` runs the same per-chunk
+function on a dask.distributed cluster (see :mod:`pathsieve.cluster`).
+
+>>> summary = label_file("examples/demo_reports.csv", "/tmp/labels.csv",
+...                      LabelOptions("colorectal"), workers=1)
+>>> summary.cases > 0
+True
 """
 
 from __future__ import annotations
 
+import multiprocessing
 import os
 import sys
-from collections import Counter
-from collections.abc import Iterator
-from concurrent.futures import ProcessPoolExecutor
+from collections import Counter, deque
+from collections.abc import Callable, Iterable, Iterator
+from concurrent.futures import Future, ProcessPoolExecutor
 from dataclasses import dataclass, field
 from pathlib import Path
-from typing import Any
+from typing import Any, TypeVar
 
 import pandas as pd
 
 from .errors import ConfigError
-from .export import EVIDENCE_COLUMNS, UNCERTAIN_MODES
+from .export import EVIDENCE_COLUMNS, UNCERTAIN_MODES, evidence_schema, label_schema
 from .io import CHUNK_ROWS, TableWriter, read_reports
 from .labeler import Labeler, frame_from_rows
 
-__all__ = ["LabelOptions", "RunSummary", "label_file"]
+__all__ = ["ENGINES", "LabelOptions", "RunSummary", "default_workers", "label_file"]
+
+ENGINES = ("local", "dask")
+
+_T = TypeVar("_T")
+_R = TypeVar("_R")
 
 
 @dataclass(frozen=True)
@@ -54,27 +70,119 @@ class RunSummary:
             lines.append(f"  {key:<30} {n:>7}  {100 * n / ok:5.1f}% present/likely")
         return "\n".join(lines)
 
+    def add(self, other: RunSummary) -> None:
+        """Fold a chunk's (or a partition's) counts into this summary."""
+        self.cases += other.cases
+        self.rows += other.rows
+        self.errors += other.errors
+        self.evidence_rows += other.evidence_rows
+        self.prevalence.update(other.prevalence)
+
+
+@dataclass
+class LabelledChunk:
+    """One chunk's output tables and counts, built where the chunk was labelled."""
+
+    labels: pd.DataFrame
+    evidence: pd.DataFrame | None
+    summary: RunSummary
+
+
+def check_options(options: LabelOptions) -> None:
+    if options.per not in ("case", "part"):
+        raise ConfigError(f"--per must be case or part, not {options.per!r}")
+    if options.uncertain is not None and options.uncertain not in UNCERTAIN_MODES:
+        raise ConfigError(f"--uncertain must be one of {', '.join(UNCERTAIN_MODES)}")
+
+
+def label_chunk(
+    labeler: Labeler, options: LabelOptions, records: Iterable[tuple[str, str, str]]
+) -> LabelledChunk:
+    """Label (case_id, text, error) records into table frames and counts.
+
+    The one per-chunk function of every engine: the local loop, worker
+    processes and dask workers all call it, so their outputs cannot drift apart.
+    """
+    rows, ev = labeler.label_records(
+        records,
+        per=options.per,
+        states=options.states,
+        uncertain=options.uncertain,
+        redact=options.redact,
+        evidence=options.evidence,
+    )
+    df = frame_from_rows(rows, labeler.columns(options.per), labeler.scheme, states=options.states)
+    evidence = pd.DataFrame(ev, columns=EVIDENCE_COLUMNS) if options.evidence else None
+    return LabelledChunk(df, evidence, tally(df, options, labeler.scheme.label_keys, len(ev)))
+
+
+def tally(
+    df: pd.DataFrame, options: LabelOptions, label_keys: tuple[str, ...], n_ev: int
+) -> RunSummary:
+    """Counts of one label-table chunk (a case's parts never straddle chunks)."""
+    s = RunSummary(label_keys=label_keys)
+    s.rows = len(df)
+    s.cases = int(df["case_id"].nunique()) if options.per == "part" else len(df)
+    s.errors = int((df["status"] == "error").sum())
+    s.evidence_rows = n_ev
+    for key in label_keys:
+        col = df[key]
+        if options.states and options.uncertain is None:
+            hit = col.isin(["present", "likely"])
+        else:
+            hit = pd.to_numeric(col, errors="coerce") >= 0.75
+        s.prevalence[key] += int(hit.sum())
+    return s
+
+
+# ------------------------------------------------------------------ worker processes
 
 _WORKER: dict[str, Any] = {}
 
 
 def _init_worker(scheme: str) -> None:
-    _WORKER["labeler"] = Labeler(scheme)
+    # A forked worker inherits the parent's pipeline (already built): keep it.
+    if _WORKER.get("scheme") != scheme or "labeler" not in _WORKER:
+        _WORKER["labeler"] = Labeler(scheme)
+        _WORKER["scheme"] = scheme
 
 
-def _label_chunk(
-    args: tuple[LabelOptions, list[tuple[str, str, str]]],
-) -> tuple[list[dict[str, Any]], list[dict[str, Any]]]:
+def _label_in_worker(args: tuple[LabelOptions, list[tuple[str, str, str]]]) -> LabelledChunk:
     opts, records = args
-    labeler: Labeler = _WORKER["labeler"]
-    return labeler.label_records(
-        records,
-        per=opts.per,
-        states=opts.states,
-        uncertain=opts.uncertain,
-        redact=opts.redact,
-        evidence=opts.evidence,
+    return label_chunk(_WORKER["labeler"], opts, records)
+
+
+def _ordered_map(
+    pool: ProcessPoolExecutor, fn: Callable[[_T], _R], items: Iterator[_T], depth: int
+) -> Iterator[_R]:
+    """``pool.map`` that reads ``items`` lazily: at most ``depth`` are in flight.
+
+    (``Executor.map`` submits the whole input at once, which would hold every
+    chunk, and every result, in memory.)
+    """
+    pending: deque[Future[_R]] = deque()
+    for item in items:
+        pending.append(pool.submit(fn, item))
+        if len(pending) >= depth:
+            yield pending.popleft().result()
+    while pending:
+        yield pending.popleft().result()
+
+
+def _pool(workers: int, scheme: str, labeler: Labeler) -> ProcessPoolExecutor:
+    """Worker processes; forked where the platform allows, so they start at once
+    with the parent's pipeline instead of building their own."""
+    method = "spawn"
+    if "fork" in multiprocessing.get_all_start_methods() and sys.platform.startswith("linux"):
+        _WORKER.update(labeler=labeler, scheme=scheme)
+        method = "fork"
+    ctx = multiprocessing.get_context(method)
+    pool = ProcessPoolExecutor(
+        workers, mp_context=ctx, initializer=_init_worker, initargs=(scheme,)
     )
+    # start the workers now, while this process has no other threads (e.g. a progress bar's)
+    pool.submit(os.getpid).result()
+    return pool
 
 
 def _chunks(
@@ -82,6 +190,9 @@ def _chunks(
 ) -> Iterator[list[tuple[str, str, str]]]:
     for chunk in read_reports(path, id_col=id_col, text_col=text_col, chunk_rows=chunk_rows):
         yield list(zip(chunk.case_id, chunk.text, chunk.error, strict=True))
+
+
+# ------------------------------------------------------------------ the entry point
 
 
 def label_file(
@@ -95,13 +206,41 @@ def label_file(
     workers: int = 1,
     chunk_rows: int = CHUNK_ROWS,
     progress: bool = False,
+    engine: str = "local",
+    scheduler: str | None = None,
+    labeler: Labeler | None = None,
 ) -> RunSummary:
-    """Label every report of ``input_path`` into ``output`` (and ``evidence_path``)."""
-    if options.per not in ("case", "part"):
-        raise ConfigError(f"--per must be case or part, not {options.per!r}")
-    if options.uncertain is not None and options.uncertain not in UNCERTAIN_MODES:
-        raise ConfigError(f"--uncertain must be one of {', '.join(UNCERTAIN_MODES)}")
-    labeler = Labeler(options.scheme)  # fails fast on a bad scheme, before anything is written
+    """Label every report of ``input_path`` into ``output`` (and ``evidence_path``).
+
+    ``engine="dask"`` labels on a dask.distributed cluster (``scheduler`` is its
+    address, e.g. ``tcp://10.0.0.5:8786``; without one a local cluster of
+    ``workers`` processes is started) and writes partitioned Parquet: ``output``
+    and ``evidence_path`` name directories.  ``labeler`` reuses a pipeline
+    already built for ``options.scheme``.
+    """
+    check_options(options)
+    if engine not in ENGINES:
+        raise ConfigError(f"--engine must be one of {', '.join(ENGINES)}, not {engine!r}")
+    if workers < 1:
+        raise ConfigError(f"--workers must be at least 1, not {workers}")
+    if engine == "dask":
+        from .cluster import label_dask
+
+        return label_dask(
+            input_path,
+            output,
+            options,
+            evidence_path=evidence_path,
+            id_col=id_col,
+            text_col=text_col,
+            scheduler=scheduler,
+            workers=workers,
+            chunk_rows=chunk_rows,
+        )
+    if scheduler is not None:
+        raise ConfigError("--scheduler needs --engine dask")
+    # fails fast on a bad scheme, before anything is written
+    labeler = labeler if labeler is not None else Labeler(options.scheme)
     opts = LabelOptions(
         options.scheme,
         options.per,
@@ -111,29 +250,30 @@ def label_file(
         evidence=evidence_path is not None,
     )
     columns = labeler.columns(options.per)
-    writer = TableWriter(output)
-    ev_writer = TableWriter(evidence_path) if evidence_path is not None else None
+    schema = label_schema(
+        labeler.scheme, options.per, states=options.states, uncertain=options.uncertain
+    )
+    writer = TableWriter(output, schema=schema)
+    ev_writer = TableWriter(evidence_path, schema=evidence_schema()) if evidence_path else None
     summary = RunSummary(label_keys=labeler.scheme.label_keys)
-    bar = _progress(progress)
     pool = None
+    bar = None
     try:
         chunks = _chunks(Path(input_path), id_col, text_col, chunk_rows)
+        results: Iterator[LabelledChunk]
         if workers > 1:
-            pool = ProcessPoolExecutor(
-                workers, initializer=_init_worker, initargs=(options.scheme,)
-            )
-            results = pool.map(_label_chunk, ((opts, c) for c in chunks))
+            pool = _pool(workers, options.scheme, labeler)
+            results = _ordered_map(pool, _label_in_worker, ((opts, c) for c in chunks), 2 * workers)
         else:
-            _WORKER["labeler"] = labeler
-            results = (_label_chunk((opts, c)) for c in chunks)
-        for rows, ev in results:
-            df = frame_from_rows(rows, columns, labeler.scheme, states=options.states)
-            writer.write(df)
-            if ev_writer is not None:
-                ev_writer.write(pd.DataFrame(ev, columns=EVIDENCE_COLUMNS))
-            _tally(summary, df, options, len(ev))
+            results = (label_chunk(labeler, opts, c) for c in chunks)
+        bar = _progress(progress)  # after the fork: the bar's monitor thread stays here
+        for chunk in results:
+            writer.write(chunk.labels)
+            if ev_writer is not None and chunk.evidence is not None:
+                ev_writer.write(chunk.evidence)
+            summary.add(chunk.summary)
             if bar is not None:
-                bar.update(len(df))
+                bar.update(len(chunk.labels))
         if summary.rows == 0:
             writer.write(pd.DataFrame(columns=columns))
         writer.close()
@@ -149,23 +289,10 @@ def label_file(
     finally:
         if pool is not None:
             pool.shutdown(cancel_futures=True)
+            _WORKER.clear()
         if bar is not None:
             bar.close()
     return summary
-
-
-def _tally(summary: RunSummary, df: pd.DataFrame, options: LabelOptions, n_ev: int) -> None:
-    summary.rows += len(df)
-    summary.cases += df["case_id"].nunique() if options.per == "part" else len(df)
-    summary.errors += int((df["status"] == "error").sum())
-    summary.evidence_rows += n_ev
-    for key in summary.label_keys:
-        col = df[key]
-        if options.states:
-            hit = col.isin(["present", "likely"])
-        else:
-            hit = pd.to_numeric(col, errors="coerce") >= 0.75
-        summary.prevalence[key] += int(hit.sum())
 
 
 def _progress(enabled: bool) -> Any:
@@ -177,6 +304,7 @@ def _progress(enabled: bool) -> Any:
 
 
 def default_workers() -> int:
+    """All the cores this process may use."""
     return max(
         1, len(os.sched_getaffinity(0)) if hasattr(os, "sched_getaffinity") else os.cpu_count() or 1
     )

@@ -78,7 +78,9 @@ _SYNONYM_OK = re.compile(r"[a-z][a-z0-9 ()'&/.\-]*\Z")
 # Every repeat is bounded, so no line can make a pattern backtrack for long.
 _DECOR = r"[ \t*=#~_>•·\-]{0,12}"
 _ENUM = r"(?:(?:\d{1,2}|(?-i:[IVX]{1,4}))[.)][ \t]{0,8})?"
-_KEY_LEAD = r"[ \t]{0,12}(?:(?:\d{1,2}[.)]|[\-*•·])[ \t]{0,8})?"
+# A checklist item may be numbered, bulleted or lettered in lower case ("a. Primary
+# pattern: 4"); a capital letter would be a specimen part ("A. Colon: ...").
+_KEY_LEAD = r"[ \t]{0,12}(?:(?:\d{1,2}[.)]|(?-i:[a-z])[.)]|[\-*•·])[ \t]{0,8})?"
 _PARENS = r"(?:\([^()\n]{0,30}\)[ \t]{0,8})?"
 # After a header: an optional "(continued)", an optional number ("ADDENDUM 2"),
 # then the separator.  A dash only separates when a space follows it, so that

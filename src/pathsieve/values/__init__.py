@@ -19,7 +19,7 @@ pn pN0 'N0'
 from __future__ import annotations
 
 import time
-from collections.abc import Iterable, Sequence
+from collections.abc import Collection, Iterable, Sequence
 from functools import lru_cache
 from typing import Any, Protocol
 
@@ -136,18 +136,24 @@ def extract_values(
     regions: Iterable[RegionSpec] | Sequence[RegionSpec],
     *,
     lexicon: ValueLexicon | None = None,
+    keys: Collection[str] | None = None,
 ) -> list[Value]:
     """All values in the given regions of ``text``, sorted by position.
 
     ``regions`` are ``(start, end, section_kind, part_label)`` spans of the original
     text; nothing is matched across a region's end.  Each value's section and part
-    come from its region.
+    come from its region.  ``keys`` limits the work to the readers of those keys
+    (each reader still reports all of its keys); readers are independent, so the
+    values of a kept reader are the same either way.
     """
     report = Report(text)
     n = len(text)
     out: list[Value] = []
     seen: set[tuple[str, int, int, str]] = set()
     rs = readers(lexicon)
+    if keys is not None:
+        wanted = frozenset(keys)
+        rs = tuple(r for r in rs if not wanted.isdisjoint(r.keys))
     for i, spec in enumerate(regions):
         start, end, section, part = _check_region(spec, n, i)
         if start == end:

@@ -310,14 +310,19 @@ class Anchors:
     the region with the pattern itself.
     """
 
-    __slots__ = ("__weakref__",)
+    __slots__ = ("__weakref__", "_key")
 
     def __init__(self, phrases: Iterable[str] = (), abbreviations: Iterable[str] = ()) -> None:
-        _INDEX.add(id(self), _stems(p.lower() for p in phrases), _stems(abbreviations))
-        weakref.finalize(self, _INDEX.remove, id(self))
+        self._key = id(self)
+        _INDEX.add(self._key, _stems(p.lower() for p in phrases), _stems(abbreviations))
+        weakref.finalize(self, _INDEX.remove, self._key)
 
     def positions(self, region: Region) -> list[int]:
-        return _INDEX.positions(region).get(id(self), _NONE)
+        # called some twenty times per region: read the region's memo directly
+        found = region.cache.get("anchors")
+        if found is None:
+            found = _INDEX.positions(region)
+        return found.get(self._key, _NONE)  # type: ignore[no-any-return]
 
 
 def near_before(positions: Sequence[int], anchors: Sequence[int], reach: int) -> list[int]:

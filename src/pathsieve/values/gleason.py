@@ -68,6 +68,7 @@ _FIELD_SEP = r"[^\S\n]{0,3}[:=.\-]?\s{0,5}"
 _PAIR = r"(?P<p>[1-5])\s{0,3}\+\s{0,3}(?P<s>[1-5])(?!\d)"
 _NEXT = END_DIGIT
 _ADJACENT = re.compile(r"[\s,;:()\[\]/-]*")
+_FIELD_GAP = re.compile(r"[\s:=]+")
 
 
 class GleasonReader:
@@ -166,6 +167,12 @@ class GleasonReader:
                 # alone decides it, but no "P+S=T" value.
                 kind = " ".join(m["kind"].lower().split())
                 if not kind or not any(w in kind for w in self._total_words):
+                    continue
+                between = body[m.end("kind") : m.start("t2")]
+                if "\n" in between and _FIELD_GAP.sub("", between):
+                    # a total on another line is read after a field name only
+                    # ("Total Gleason score:\n8"), not after other words or OCR
+                    # debris ("Gleason score is\n.3f-4")
                     continue
                 gg = grade_group_from_total(int(m["t2"]))
                 if gg is not None:

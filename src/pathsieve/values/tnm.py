@@ -45,19 +45,30 @@ class TNMReader:
         ocr = "[" + "".join(re.escape(c) for c in self._ocr) + "]"
         # After an OCR letter the category must end the string or meet the next one,
         # so "pT2 No evidence of ..." is not read as pN0.
-        ocr_tail = r"[ \t]{0,3}(?:[,;.)(/\n]|$|[pPcC]?[NM][ ]?[0-3OXx])"
+        ocr_tail = r"[ \t]{0,3}(?:[,;:.)(/\n]|$|[pPcC]?[NM][ ]?[0-3OXx])"
         ocr_end = rf"(?={ocr_tail})"
+        # A category with its own prefix ("pNO", "pNl") is certain enough that any
+        # word end may follow it: "pNO RO", "pNO Stage IB", "pNI VI".
+        ocr_word_end = r"(?![A-Za-z0-9])"
         t_cat = (
             rf"(?P<tc>(?i:is)(?![a-z])|[Xx]|a(?![A-Za-z])"
             rf"|(?P<td>[0-4]|{ocr}(?=[a-dA-D](?![a-z])|{ocr_tail}))(?P<tsub>mi(?![a-z])|[a-dA-D](?:[1-3](?!\d))?|[ ][a-d](?![A-Za-z]))?)"
             r"(?P<tm>[ ]?\((?:m|\d{1,2})\))?"
             r"(?=$|[^A-Za-z0-9]|[NM])(?!/[a-dA-D](?![A-Za-z]))"
         )
-        n_cat = (
-            rf"(?P<nc>[Xx]|(?P<nd>[0-3]|{ocr}{ocr_end})(?P<nsub>mi(?![a-z])|[a-cA-C](?![a-z]))?)"
-            r"(?P<nsuf>(?:[ ]?\((?:i[+-]|mol[+-]|sn|f)\)){0,2})"
-            r"(?=$|[^A-Za-z0-9]|M)(?!/[a-cA-C](?![A-Za-z]))"
-        )
+
+        def n_category(end: str) -> str:
+            return (
+                rf"(?P<nc>[Xx]|(?P<nd>[0-3]|{ocr}{end})(?P<nsub>mi(?![a-z])|[a-cA-C](?![a-z]))?)"
+                r"(?P<nsuf>(?:[ ]?\((?:i[+-]|mol[+-]|sn|f)\)){0,2})"
+                r"(?=$|[^A-Za-z0-9]|M)(?!/[a-cA-C](?![A-Za-z]))"
+            )
+
+        # An N glued to its T ("pT2NO", "T2NO squamous cell carcinoma") is certain
+        # enough for a word end to follow its OCR letter, as after a prefix.
+        letters = "".join(re.escape(c) for c in self._ocr)
+        glued = rf"(?<=[0-9a-dA-D{letters}]N{ocr})"
+        n_cat = n_category(rf"(?:{glued}{ocr_word_end}|{ocr_end})")
         m_cat = (
             rf"(?P<mc>[Xx]|(?P<md>[01]|{ocr}{ocr_end})(?P<msub>[a-dA-D](?![a-z]))?)"
             r"(?=$|[^A-Za-z0-9])"
@@ -73,7 +84,9 @@ class TNMReader:
             rf"{lb}(?P<T>{t_tok})(?:{sep}(?P<N>{n_tok}))?(?:{sep}{nodes}(?P<M>{m_tok}))?"
         )
         # Alone, an N or M needs its prefix: "No" and "MX" are too often other words.
-        self._n_alone = re.compile(rf"{lb}(?P<N>(?P<npre>{_PFX})[ ]?N[ ]?{n_cat})")
+        self._n_alone = re.compile(
+            rf"{lb}(?P<N>(?P<npre>{_PFX})[ ]?N[ ]?{n_category(ocr_word_end)})"
+        )
         self._m_alone = re.compile(rf"{lb}(?P<M>(?P<mpre>{_PFX})[ ]?M[ ]?{m_cat})")
         # The letters T, N and M find the places worth trying (a plain-character scan
         # is far faster than trying the full pattern everywhere).
@@ -162,8 +175,13 @@ class TNMReader:
         if not pre and not headed:
             if self._clinical.search(body, line_start, m.start()):
                 return [("T", Found(m.start(), m.end(), None))]
-            if any(c in self._ocr for c in (m["td"] or "", m["nd"] or "", m["md"] or "")):
-                return []  # OCR letters only where a prefix makes the string certain
+            digits = [d for d in (m["td"], m["nd"], m["md"]) if d]
+            if any(d in self._ocr for d in digits) and (
+                len(digits) < 2 or all(d in self._ocr for d in digits)
+            ):
+                # OCR letters where no prefix makes the string certain: only inside a
+                # string of two or more categories with a real digit ("T2NOMX", "T4N2Ml")
+                return []
         inherited = pre or "p"
         assumed = not pre and not headed
         out: list[tuple[str, Found]] = []
