@@ -38,15 +38,16 @@ import logging
 import os
 import shutil
 import threading
-from collections.abc import Iterator, Sequence
+from collections.abc import Iterator
 from dataclasses import dataclass, replace
 from pathlib import Path
 from typing import Any
 
 import pandas as pd
 
+from .delimited import is_blank_record
 from .errors import ConfigError, InputError
-from .export import evidence_schema, label_schema
+from .export import EVIDENCE_PHI_NOTICE, evidence_schema, label_schema
 from .io import (
     CHUNK_ROWS,
     _finish,
@@ -59,6 +60,7 @@ from .io import (
     txt_frame,
 )
 from .labeler import Labeler
+from .resume import notice_path
 from .runner import LabelOptions, RunSummary, check_options, label_chunk
 
 __all__ = [
@@ -178,14 +180,9 @@ def _plan_txt(folder: Path, per: int) -> list[Partition]:
     ]
 
 
-def _blank(record: Sequence[str]) -> bool:
-    # the reader's rule for a skipped line: no field, or one blank field
-    return len(record) == 0 or (len(record) == 1 and not record[0].strip())
-
-
 def _plan_csv(source: Path, per: int) -> list[Partition]:
     encoding, delim = sniff_csv(source)
-    if encoding != "utf-8":
+    if encoding == "latin-1":
         _warn(f"{source}: not valid UTF-8; read as Latin-1 (check accented characters)")
     width = _header_width(source, encoding, delim)
     size = source.stat().st_size
@@ -193,6 +190,8 @@ def _plan_csv(source: Path, per: int) -> list[Partition]:
         0, "csv", str(source), 1, -1, encoding=encoding, delimiter=delim, width=width,
         source=str(source),
     )  # fmt: skip
+    if encoding == "utf-16":
+        return [base]  # byte ranges cannot be cut at line ends found byte by byte: one partition
     pos = 0
 
     def lines(fh: Any) -> Iterator[str]:
@@ -217,7 +216,7 @@ def _plan_csv(source: Path, per: int) -> list[Partition]:
             )
             head_start = 0
             for record in reader:
-                if not _blank(record):
+                if not is_blank_record(record):
                     break
                 head_start = pos
             else:
@@ -228,7 +227,7 @@ def _plan_csv(source: Path, per: int) -> list[Partition]:
             cuts.append((pos, 0))
             rows = 0
             for record in reader:
-                if _blank(record):
+                if is_blank_record(record):
                     continue
                 rows += 1
                 if rows % per == 0:
@@ -308,7 +307,7 @@ def _raw_chunks(
                 fh.seek(p.start)
                 body = fh.read(p.end - p.start)
             text = (p.header + body).decode(p.encoding)
-            buf = io.StringIO(text, newline="")  # no newline translation, like a file
+            buf = io.StringIO(text, newline="\n")  # lines end in LF only, as the reader reads
             yield from csv_chunks(buf, source, p.encoding, p.delimiter, p.width, chunk_rows)
         elif p.kind == "jsonl":
             yield from jsonl_chunks(
@@ -434,7 +433,7 @@ def _label_partition(
     schema = label_schema(
         labeler.scheme, options.per, states=options.states, uncertain=options.uncertain
     )
-    ev_schema = evidence_schema()
+    ev_schema = evidence_schema(redact=options.redact)
     summary = RunSummary(label_keys=labeler.scheme.label_keys)
     name = _PART.format(p.index)
     writer = pq.ParquetWriter(os.path.join(out_dir, name), schema)
@@ -562,14 +561,7 @@ def label_dask(
     if Path(scheme).suffix.lower() in (".yaml", ".yml"):
         scheme = str(Path(scheme).resolve())  # workers resolve the same file on shared storage
     labeler = Labeler(scheme)  # fails fast on a bad scheme, before a cluster starts
-    opts = LabelOptions(
-        scheme,
-        options.per,
-        options.states,
-        options.uncertain,
-        options.redact,
-        evidence=evidence_path is not None,
-    )
+    opts = replace(options, scheme=scheme, evidence=evidence_path is not None)
     out = _output_dir(output, "output")
     ev_out = _output_dir(evidence_path, "evidence") if evidence_path is not None else None
     if ev_out is not None and ev_out.resolve() == out.resolve():
@@ -625,6 +617,11 @@ def label_dask(
         _fill_empty(tmp, ev_tmp, labeler, opts, parts)
         _publish(tmp, out)
         if ev_tmp is not None and ev_out is not None:
+            notice = notice_path(ev_out)
+            if opts.redact:
+                notice.unlink(missing_ok=True)
+            else:
+                notice.write_text(f"{ev_out.name}: {EVIDENCE_PHI_NOTICE}\n", encoding="utf-8")
             _publish(ev_tmp, ev_out)
     except BaseException:
         for d in (tmp, ev_tmp):
@@ -662,4 +659,4 @@ def _fill_empty(
     schema = label_schema(labeler.scheme, opts.per, states=opts.states, uncertain=opts.uncertain)
     pq.write_table(schema.empty_table(), tmp / _PART.format(0))
     if ev_tmp is not None:
-        pq.write_table(evidence_schema().empty_table(), ev_tmp / _PART.format(0))
+        pq.write_table(evidence_schema(redact=opts.redact).empty_table(), ev_tmp / _PART.format(0))

@@ -13,7 +13,8 @@ row, named by its first line; its following lines are parsed again from the
 line after it, so the rows it swallowed come back as rows of their own.  Lines
 that, read again, do not look like records (wrong number of fields, a first
 field not shaped like the first fields of the sound rows: ``HV25-S000001`` has
-the shape ``a9-a9``) are counted into the broken row, whose error names every line it covers.  Nothing is merged
+the shape ``a9-a9``; before any sound row, one without a digit or with a space)
+are counted into the broken row, whose error names every line it covers.  Nothing is merged
 silently: each input line ends up in exactly one row or in one error row that
 names it.
 
@@ -77,19 +78,59 @@ def is_blank_record(record: list[str]) -> bool:
     return len(record) == 0 or (len(record) == 1 and not record[0].strip())
 
 
-class _Lines:
-    """Physical lines with their numbers; lines can be pushed back to be read again."""
+#: Stands in for a carriage return inside a line while :mod:`csv` parses it (and for
+#: itself, doubled); a private-use character, so almost never present to begin with.
+_CR_MARK = "\uf8ff"
+_UNMARK = re.compile(_CR_MARK + "(.)", re.DOTALL)
 
-    def __init__(self, lines: Iterable[str], first: int) -> None:
+
+def _mark_cr(line: str, crlf: bool) -> str:
+    """Hide the carriage returns inside a line from :mod:`csv` (with ``crlf``, not the
+    CR of its CRLF ending)."""
+    end = 2 if crlf and line.endswith("\r\n") else 1 if line.endswith("\n") else 0
+    body = line[: len(line) - end]
+    if "\r" not in body and _CR_MARK not in body:
+        return line
+    body = body.replace(_CR_MARK, _CR_MARK * 2).replace("\r", _CR_MARK + "r")
+    return body + line[len(line) - end :]
+
+
+def _unmark(field: str) -> str:
+    if _CR_MARK not in field:
+        return field
+    return _UNMARK.sub(lambda m: "\r" if m.group(1) == "r" else _CR_MARK, field)
+
+
+class _Lines:
+    """Physical lines with their numbers; lines can be pushed back to be read again.
+
+    With ``cr_is_text`` (a file whose lines end in LF or CRLF), a carriage
+    return inside a line is report text, not a line end: writers quote a field
+    only for the characters of their own line terminator, so a lone CR often
+    stands unquoted in a field.  The first line tells the terminator: if it ends
+    in CRLF, so do all (a CR before LF is the ending); if in LF, a CR before LF
+    is text.  Such lines reach :mod:`csv` with the CR
+    hidden (:func:`_mark_cr`); :attr:`marked` says the record's fields must be
+    restored (:func:`_unmark`).
+    """
+
+    def __init__(self, lines: Iterable[str], first: int, *, cr_is_text: bool) -> None:
         self._it = iter(lines)
         self._fresh = first
+        self._cr_is_text = cr_is_text
+        self._crlf: bool | None = None
         self._back: deque[tuple[int, str]] = deque()
         self.taken: list[tuple[int, str]] = []  # the lines of the record being read
+        self.marked = False
         self.fresh_read = 0
         self.reread = 0
 
     def __iter__(self) -> _Lines:
         return self
+
+    def start_record(self) -> None:
+        self.taken = []
+        self.marked = False
 
     def __next__(self) -> str:
         if self._back:
@@ -97,9 +138,15 @@ class _Lines:
             self.reread += 1
         else:
             line = next(self._it)
+            if self._cr_is_text:
+                if self._crlf is None:
+                    self._crlf = line.endswith("\r\n")
+                line = _mark_cr(line, self._crlf)
             no = self._fresh
             self._fresh += 1
             self.fresh_read += 1
+        if _CR_MARK in line:
+            self.marked = True
         self.taken.append((no, line))
         return line
 
@@ -140,16 +187,11 @@ def _reason(exc: csv.Error) -> str:
 
 def _salvage(line: str, delimiter: str) -> list[str]:
     """The fields of the first line of a broken record, as well as they can be told."""
-    fields = line.rstrip("\r\n").split(delimiter)
-    out = []
-    for f in fields:
-        f = f.strip()
-        if len(f) >= 2 and f[0] == f[-1] == '"':
-            f = f[1:-1].replace('""', '"')
-        elif f.startswith('"'):
-            f = f[1:]
-        out.append(f)
-    return out
+    text = _unmark(line.rstrip("\r\n"))
+    try:  # the forgiving reading of this one line
+        return next(csv.reader([text], delimiter=delimiter, strict=False))
+    except (csv.Error, StopIteration):
+        return [f.strip().strip('"') for f in text.split(delimiter)]
 
 
 def _header_names(record: list[str]) -> list[str]:
@@ -176,15 +218,18 @@ def read_delimited(
     chunk_rows: int,
     source: object = None,
     first_line: int = 1,
+    cr_is_text: bool = True,
     warn: Callable[[str], None] | None = None,
 ) -> Iterator[pd.DataFrame]:
     """Chunks of at most ``chunk_rows`` rows: the header's columns (as strings),
     plus :data:`LINE_COL` and :data:`PROBLEM_COL`.
 
-    ``lines`` are physical lines with their endings (a file opened with
-    ``newline=""``).  The header is the first non-blank record.
+    ``lines`` are physical lines with their endings.  ``cr_is_text``: the lines
+    end in LF (a file opened with ``newline="\\n"``) and a carriage return
+    inside one is text; otherwise CR alone ends lines (``newline="\\r"``, an
+    old Macintosh export).  The header is the first non-blank record.
     """
-    src = _Lines(lines, first_line)
+    src = _Lines(lines, first_line, cr_is_text=cr_is_text)
     reader = csv.reader(
         src,
         delimiter=delimiter,
@@ -212,13 +257,15 @@ def read_delimited(
         line_nos.append(line)
         problems.append(problem)
 
-    def looks_like_record(rec: list[str]) -> bool:
+    def looks_like_record(rec: list[str], *, exact: bool = True) -> bool:
         # after a break, a line starts a row again only if it has the header's width and
         # a first field shaped like those of the sound rows so far (report text seldom is)
         key = rec[0].strip()
-        if len(rec) != width or not 0 < len(key) <= _MAX_KEY:
+        if (len(rec) != width if exact else len(rec) < width) or not 0 < len(key) <= _MAX_KEY:
             return False
-        return len(shapes) >= _MAX_SHAPES or not shapes or key_shape(key) in shapes
+        if not shapes:  # the first row broke: nothing learnt yet; ids hold digits, no spaces
+            return any(c.isdigit() for c in key) and not any(c.isspace() for c in key)
+        return len(shapes) >= _MAX_SHAPES or key_shape(key) in shapes
 
     def frame() -> pd.DataFrame:
         assert names is not None
@@ -228,7 +275,7 @@ def read_delimited(
         return df
 
     while True:
-        src.taken = []
+        src.start_record()
         try:
             rec = next(reader)
         except StopIteration:
@@ -243,10 +290,13 @@ def read_delimited(
                     path=source,
                     line=taken[0][0],
                 ) from exc
+            fields = _salvage(taken[0][1], delimiter)
+            if broken is not None and looks_like_record(fields, exact=False):
+                # a second broken row right after the first: each is a row of its own
+                emit(broken.fields, broken.first, broken.message())
+                broken = None
             if broken is None:
-                broken = _Broken(
-                    _salvage(taken[0][1], delimiter), taken[0][0], taken[0][0], _reason(exc)
-                )
+                broken = _Broken(fields, taken[0][0], taken[0][0], _reason(exc))
             else:
                 broken.last = taken[0][0]
             rest = taken[1:]
@@ -256,6 +306,8 @@ def read_delimited(
                 broken.last = taken[-1][0]
             continue
         first, last = src.taken[0][0], src.taken[-1][0]
+        if src.marked:
+            rec = [_unmark(f) for f in rec]
         if is_blank_record(rec):
             continue
         if names is None:

@@ -6,11 +6,17 @@ column per binary label key (certainty score 1.0/0.75/0.5/0.25/0.0, empty when
 unmentioned; state words with ``states=True``; 0/1 with ``uncertain=``), one
 column per value label, then ``flags``.
 
-Evidence: one row per mention and per value, with exact offsets.
+Evidence: one row per mention and per value, with exact offsets.  Unless
+redacted, evidence holds report text (the ``text`` column, trigger words,
+notes): protected health information.  A Parquet evidence table says so in its
+schema metadata (key ``pathsieve``: ``{"contains_report_text": true, ...}``);
+``pathsieve label`` also writes :data:`EVIDENCE_PHI_NOTICE` beside an evidence
+file that holds text (``<evidence>.PHI.txt``: JSONL has no place for a note).
 """
 
 from __future__ import annotations
 
+import json
 from typing import Any
 
 from .aggregate import CaseLabels, PartLabels
@@ -19,6 +25,7 @@ from .schemes import Scheme
 
 __all__ = [
     "EVIDENCE_COLUMNS",
+    "EVIDENCE_PHI_NOTICE",
     "UNCERTAIN_MODES",
     "error_rows",
     "evidence_rows",
@@ -29,6 +36,12 @@ __all__ = [
 ]
 
 UNCERTAIN_MODES = ("drop", "positive", "negative", "soft")
+EVIDENCE_PHI_NOTICE = (
+    "This evidence table contains pathology report text (the 'text' column, trigger words "
+    "and notes): protected health information. Keep it on approved systems, do not e-mail or "
+    "upload it, and delete it when it is no longer needed. 'pathsieve label --redact-evidence' "
+    "writes evidence with offsets and concept ids only."
+)
 EVIDENCE_COLUMNS = [
     "case_id",
     "part",
@@ -84,8 +97,14 @@ def label_schema(
     )
 
 
-def evidence_schema() -> Any:
-    """The pyarrow schema of the evidence table."""
+def evidence_schema(*, redact: bool = False) -> Any:
+    """The pyarrow schema of the evidence table, marked as holding report text or not.
+
+    >>> import json
+    >>> meta = evidence_schema().metadata[b"pathsieve"]
+    >>> json.loads(meta)["contains_report_text"]
+    True
+    """
     import pyarrow as pa
 
     text = pa.large_string()
@@ -106,7 +125,15 @@ def evidence_schema() -> Any:
         "score": pa.float64(),
         "flags": pa.list_(pa.string()),
     }
-    return pa.schema([(name, kinds.get(name, text)) for name in EVIDENCE_COLUMNS])
+    note = {
+        "table": "evidence",
+        "contains_report_text": not redact,
+        "notice": "" if redact else EVIDENCE_PHI_NOTICE,
+    }
+    return pa.schema(
+        [(name, kinds.get(name, text)) for name in EVIDENCE_COLUMNS],
+        metadata={"pathsieve": json.dumps(note)},
+    )
 
 
 def _cell(state: LabelState | None, *, states: bool, uncertain: str | None) -> Any:

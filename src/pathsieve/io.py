@@ -1,19 +1,24 @@
 """Reading report exports and writing label tables.
 
-Inputs: CSV/TSV (delimiter and encoding sniffed: UTF-8, with a Latin-1 fallback
-that is reported), JSONL, Parquet, Excel, or a folder of ``.txt`` files (file
-stem = case id).  Reading is chunked; every input row yields exactly one
-record, marked with an error when its id or text is unusable, so nothing is
-lost.  Outputs are written to a temporary file and renamed when complete.
+Inputs: CSV/TSV (delimiter and encoding sniffed: UTF-8, UTF-16 with its byte
+order mark, or a Latin-1 fallback that is reported), JSONL, Parquet, Excel, or
+a folder of ``.txt`` files (file stem = case id).  Reading is chunked; every
+input row yields exactly one record, marked with an error when its id or text
+is unusable (no id, a repeated id, no text, a CSV row whose quoting is broken, a
+JSONL line that is not a JSON object), so nothing is lost.  Error messages name
+the file, row and line, never the report text.  Outputs are written to a
+temporary file and renamed when complete.
 """
 
 from __future__ import annotations
 
+import codecs
 import csv
 import hashlib
 import io
 import json
 import os
+import re
 import sys
 from collections.abc import Callable, Iterator
 from pathlib import Path
@@ -21,6 +26,7 @@ from typing import Any
 
 import pandas as pd
 
+from .delimited import LINE_COL, PROBLEM_COL, read_delimited
 from .errors import ConfigError, InputError
 
 __all__ = [
@@ -61,9 +67,17 @@ def _is_utf8(path: Path, block: int = 1 << 20) -> bool:
 
 
 def sniff_csv(path: Path) -> tuple[str, str]:
-    """Guess (encoding, delimiter) of a delimited text file."""
+    """Guess (encoding, delimiter) of a delimited text file.
+
+    UTF-16 is recognised by its byte order mark (spreadsheet programs' "Unicode
+    text" export); otherwise UTF-8 if the whole file decodes, else Latin-1.
+    """
     with path.open("rb") as fh:
         head = fh.read(65536)
+    if head.startswith((codecs.BOM_UTF16_LE, codecs.BOM_UTF16_BE)):
+        sample = head[: len(head) // 2 * 2].decode("utf-16", errors="replace")
+        delims = "\t" if path.suffix.lower() == ".tsv" else _sniff_delimiter(sample)
+        return "utf-16", delims
     try:
         sample = head.decode("utf-8")
         encoding = "utf-8"
@@ -79,11 +93,14 @@ def sniff_csv(path: Path) -> tuple[str, str]:
         encoding = "latin-1"
     if path.suffix.lower() == ".tsv":
         return encoding, "\t"
+    return encoding, _sniff_delimiter(sample)
+
+
+def _sniff_delimiter(sample: str) -> str:
     try:
-        delim = csv.Sniffer().sniff(sample.split("\n", 20)[0] + "\n", delimiters=",\t;|").delimiter
+        return csv.Sniffer().sniff(sample.split("\n", 20)[0] + "\n", delimiters=",\t;|").delimiter
     except csv.Error:
-        delim = ","
-    return encoding, delim
+        return ","
 
 
 class SeenIds:
@@ -140,6 +157,15 @@ def case_id_of(cid: Any) -> str:
     return "" if cid is None or (isinstance(cid, float) and pd.isna(cid)) else str(cid).strip()
 
 
+_SURROGATE = re.compile("[\ud800-\udfff]")
+
+
+def _clean(value: str) -> str:
+    """Lone surrogates (a JSON ``"\\ud800"`` escape) become U+FFFD: one character for one,
+    so offsets hold, and the text can be written as UTF-8."""
+    return _SURROGATE.sub("\ufffd", value) if _SURROGATE.search(value) else value
+
+
 def _finish(
     df: pd.DataFrame,
     id_col: str,
@@ -150,11 +176,15 @@ def _finish(
 ) -> pd.DataFrame:
     """Normalise a raw chunk into case_id, text, row, error columns."""
     cols = list(df.columns)
+    problems = df[PROBLEM_COL].tolist() if PROBLEM_COL in cols else [""] * len(df)
     for col in (id_col, text_col):
         if col not in cols:
+            if len(df) and all(problems):
+                df = df.assign(**{col: ""})  # only unreadable rows: nothing to look for
+                continue
+            shown = [str(c) for c in cols if c not in (PROBLEM_COL, LINE_COL)]
             raise InputError(
-                f"column {col!r} not found (columns: {', '.join(map(str, cols))}); "
-                f"pass --id-col/--text-col",
+                f"column {col!r} not found (columns: {', '.join(shown)}); pass --id-col/--text-col",
                 path=source,
             )
     ids = df[id_col]
@@ -163,19 +193,25 @@ def _finish(
     for i, (cid, text) in enumerate(zip(ids.tolist(), texts.tolist(), strict=True)):
         row = first_row + i
         error = ""
-        case_id = case_id_of(cid)
+        case_id = _clean(case_id_of(cid))
         if isinstance(text, bytes):
             text = text.decode("utf-8", errors="replace")
         if text is None or (isinstance(text, float) and pd.isna(text)):
             text = ""
-        text = str(text)
-        if not case_id:
+        text = _clean(str(text))
+        # (no line numbers here: a cluster partition counts lines from its own start)
+        where = f"row {row}"
+        if problems[i]:
+            case_id = case_id or f"row{row}"
+            error = f"{source}: row {row}: {problems[i]}"
+            text = ""
+        elif not case_id:
             case_id = f"row{row}"
-            error = f"{source}: row {row}: empty {id_col!r}; the row was given id {case_id}"
+            error = f"{source}: {where}: empty {id_col!r}; the row was given id {case_id}"
         elif case_id in seen:
-            error = f"{source}: row {row}: duplicate case id {case_id!r}; ids must be unique"
+            error = f"{source}: {where}: duplicate case id {case_id!r}; ids must be unique"
         elif not text.strip():
-            error = f"{source}: row {row}: column {text_col!r} is empty"
+            error = f"{source}: {where}: column {text_col!r} is empty"
         seen.add(case_id)
         records.append((case_id, text, row, error))
     return pd.DataFrame.from_records(records, columns=["case_id", "text", "row", "error"])
@@ -242,7 +278,7 @@ def _raw_chunks(
                 yield df.iloc[i : i + chunk_rows]
         else:
             encoding, delim = sniff_csv(source)
-            if encoding != "utf-8":
+            if encoding == "latin-1":
                 warn(f"{source}: not valid UTF-8; read as Latin-1 (check accented characters)")
             width = _header_width(source, encoding, delim)
             yield from csv_chunks(source, source, encoding, delim, width, chunk_rows, warn)
@@ -263,21 +299,30 @@ def csv_chunks(
 ) -> Iterator[pd.DataFrame]:
     """Raw chunks of a delimited file (or of a slice of one, header first, as text).
 
-    One parser configuration for every reader, so the cluster engine, which
-    parses byte ranges of a file, reads exactly the rows a whole-file run does.
+    One reader for every engine (:func:`pathsieve.delimited.read_delimited`), so
+    the cluster engine, which parses byte ranges of a file, reads exactly the
+    rows a whole-file run does.  ``width`` is the header's (kept for callers; the
+    reader takes it from the header it reads).
     """
-    reader = pd.read_csv(
-        data,
-        sep=delim,
-        dtype=str,
-        keep_default_na=False,
-        encoding=encoding,
-        chunksize=chunk_rows,
-        on_bad_lines=lambda bad: _bad_line(source, bad, width, warn),
-        engine="python",
-        index_col=False,  # a row with extra fields must not turn the first column into an index
-    )
-    yield from reader
+    if isinstance(data, Path):
+        with data.open("r", encoding=encoding, newline="") as fh:
+            head = fh.read(65536)
+        # lines end in LF (or CRLF), and a lone CR is text; a file with CRs and no LF at
+        # all is an old Macintosh export, whose lines end in CR
+        cr_lines = "\n" not in head and "\r" in head
+        with data.open("r", encoding=encoding, newline="\r" if cr_lines else "\n") as fh:
+            yield from read_delimited(
+                fh,
+                delimiter=delim,
+                chunk_rows=chunk_rows,
+                source=source,
+                cr_is_text=not cr_lines,
+                warn=warn,
+            )
+    else:  # a cluster partition's text, split at LF (``newline="\\n"``)
+        yield from read_delimited(
+            data, delimiter=delim, chunk_rows=chunk_rows, source=source, warn=warn
+        )
 
 
 def _header_width(source: Path, encoding: str, delim: str) -> int:
@@ -286,18 +331,14 @@ def _header_width(source: Path, encoding: str, delim: str) -> int:
     return max(len(header), 1)
 
 
-def _bad_line(source: Path, bad: list[str], width: int, warn: Callable[[str], None]) -> list[str]:
-    """Keep a row with extra fields (its first columns) rather than lose it."""
-    warn(
-        f"{source}: a row with {len(bad)} fields (header has {width}) was read from its first columns"
-    )
-    return (bad + [""] * width)[:width]
-
-
 def jsonl_chunks(
     source: Path, chunk_rows: int, *, start: int = 0, end: int | None = None, first_line: int = 1
 ) -> Iterator[pd.DataFrame]:
-    """Chunks of a JSONL file, or of the lines in bytes ``[start, end)`` of it."""
+    """Chunks of a JSONL file, or of the lines in bytes ``[start, end)`` of it.
+
+    A line that is not a JSON object becomes a row of its own, with a problem
+    that :func:`_finish` turns into an error naming the line (never its text).
+    """
     rows: list[dict[str, Any]] = []
     with source.open("rb") as raw:
         raw.seek(start)
@@ -308,12 +349,12 @@ def jsonl_chunks(
                 continue
             try:
                 obj = json.loads(line)
-                if not isinstance(obj, dict):
-                    raise ValueError("not an object")
             except ValueError as exc:
-                raise InputError(
-                    f"line {n} is not a JSON object ({exc})", path=source, line=n
-                ) from exc
+                # json's message gives a position, never the document
+                obj = {PROBLEM_COL: f"line {n} is not valid JSON ({exc}); fix or remove it"}
+            if not isinstance(obj, dict):
+                obj = {PROBLEM_COL: f"line {n} holds a JSON {type(obj).__name__}, not an object"}
+            obj.setdefault(PROBLEM_COL, "")
             rows.append(obj)
             if len(rows) >= chunk_rows:
                 yield _json_frame(rows)

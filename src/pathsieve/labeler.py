@@ -17,6 +17,7 @@ from typing import Any
 import pandas as pd
 
 from .aggregate import CaseLabels, _negation_reach, aggregate
+from .budget import BudgetExceeded, TimeBudget
 from .export import EVIDENCE_COLUMNS, error_rows, evidence_rows, label_columns, label_rows
 from .ontology import Ontology, load_ontology
 from .pipeline import ReadReport, build_nlp, report_reader
@@ -24,6 +25,8 @@ from .records import CERTAINTY_SCORE
 from .schemes import Scheme, load_scheme
 
 __all__ = ["LabeledReport", "Labeler"]
+
+_WARM_UP = "DIAGNOSIS: A. Colon, biopsy: no adenoma; 0/2 lymph nodes, margins negative."
 
 #: Certainty colours and text markers of the HTML display (readable without colour).
 _MARK = {
@@ -129,6 +132,11 @@ class Labeler:
         self._read_for_labels = report_reader(
             self.nlp, value_keys=self.scheme.value_keys, keep_mention=keep
         )
+        # Some pieces (the value readers' patterns) are built on first use.  Build them
+        # now: the first report's time budget must not pay for them, an interrupted
+        # build must not be possible, and forked workers inherit them ready-made.
+        self._read(_WARM_UP)
+        self._read_for_labels(_WARM_UP)
 
     def read(self, text: str) -> ReadReport:
         """The pipeline's records for one text (the spaCy Doc is not built)."""
@@ -161,31 +169,45 @@ class Labeler:
         uncertain: str | None = None,
         redact: bool = False,
         evidence: bool = True,
+        time_budget: float | None = None,
     ) -> tuple[list[dict[str, Any]], list[dict[str, Any]]]:
-        """Label (case_id, text, error) records; an error record yields an error row."""
+        """Label (case_id, text, error) records; an error record yields an error row.
+
+        Exactly one row per record (per part with ``per="part"``), in order.  A
+        report whose labelling fails, or runs past ``time_budget`` seconds (see
+        :class:`~pathsieve.budget.TimeBudget`), becomes an error row too; error
+        messages name the case, never its text.
+        """
         rows: list[dict[str, Any]] = []
         ev: list[dict[str, Any]] = []
-        for case_id, text, error in records:
-            if error:
-                rows += error_rows(case_id, error, self.scheme, per=per)
-                continue
-            try:
-                result = (
-                    self.label_report(text)
-                    if evidence
-                    else aggregate(self._read_for_labels(text), self.scheme)
-                )
-            except Exception as exc:  # one bad report never stops a run
-                rows += error_rows(
-                    case_id,
-                    f"case {case_id}: {type(exc).__name__} while labelling",
-                    self.scheme,
-                    per=per,
-                )
-                continue
-            rows += label_rows(case_id, result, per=per, states=states, uncertain=uncertain)
-            if evidence:
-                ev += evidence_rows(case_id, result, redact=redact)
+        with TimeBudget(time_budget) as budget:
+            for case_id, text, error in records:
+                if error:
+                    rows += error_rows(case_id, error, self.scheme, per=per)
+                    continue
+                try:
+                    with budget.watch(len(text)):
+                        result = (
+                            self.label_report(text)
+                            if evidence
+                            else aggregate(self._read_for_labels(text), self.scheme)
+                        )
+                        new_rows = label_rows(
+                            case_id, result, per=per, states=states, uncertain=uncertain
+                        )
+                        new_ev = evidence_rows(case_id, result, redact=redact) if evidence else []
+                except BudgetExceeded:
+                    seconds = budget.allowance(len(text))
+                    message = f"case {case_id}: exceeded the time budget of {seconds:g} s"
+                    rows += error_rows(case_id, message, self.scheme, per=per)
+                    continue
+                except Exception as exc:  # one bad report never stops a run
+                    # the exception's own message may quote the report: name its type only
+                    message = f"case {case_id}: {type(exc).__name__} while labelling"
+                    rows += error_rows(case_id, message, self.scheme, per=per)
+                    continue
+                rows += new_rows
+                ev += new_ev
         return rows, ev
 
     def label_frame(
@@ -197,6 +219,7 @@ class Labeler:
         per: str = "case",
         states: bool = False,
         uncertain: str | None = None,
+        time_budget: float | None = None,
     ) -> pd.DataFrame:
         """Label a DataFrame of reports; one output row per input case (or per part)."""
         from .io import _finish
@@ -208,6 +231,7 @@ class Labeler:
             states=states,
             uncertain=uncertain,
             evidence=False,
+            time_budget=time_budget,
         )
         return self._frame(rows, per)
 

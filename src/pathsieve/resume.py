@@ -35,11 +35,11 @@ from typing import Any
 import pandas as pd
 
 from .errors import ConfigError
+from .export import EVIDENCE_PHI_NOTICE
 from .io import OUTPUT_SUFFIXES, TableWriter
 
 __all__ = [
     "MANIFEST_FORMAT",
-    "PHI_NOTICE",
     "ChunkStore",
     "check_output",
     "input_fingerprint",
@@ -49,14 +49,6 @@ __all__ = [
 
 MANIFEST_FORMAT = "pathsieve-run/1"
 _PART = "{:06d}"
-
-#: Written beside an evidence table that holds report text.
-PHI_NOTICE = (
-    "This evidence table contains pathology report text (the 'text' column, trigger words "
-    "and notes): protected health information.\nKeep it on approved systems, do not e-mail or "
-    "upload it, and delete it when it is no longer needed.\nRun 'pathsieve label "
-    "--redact-evidence' for evidence with offsets and concept ids only.\n"
-)
 
 
 def _warn(message: str) -> None:
@@ -326,7 +318,9 @@ class ChunkStore:
             if self.evidence is not None and self.ev_parts is not None:
                 notice = notice_path(self.evidence)
                 if self.evidence_has_text:
-                    notice.write_text(PHI_NOTICE, encoding="utf-8")
+                    notice.write_text(
+                        f"{self.evidence.name}: {EVIDENCE_PHI_NOTICE}\n", encoding="utf-8"
+                    )
                 else:
                     notice.unlink(missing_ok=True)
                 self._join(self.ev_parts, self.evidence, empty_evidence, self.evidence_schema)
@@ -340,8 +334,14 @@ class ChunkStore:
         finally:
             self._lock.release()
 
-    def close(self) -> None:
-        """Stop without finishing: parts and manifest stay for ``--resume``."""
+    def close(self, *, keep: bool = True) -> None:
+        """Stop without finishing: parts and manifest stay for ``--resume``
+        (``keep=False``: removed, as if the run had never started)."""
+        if not keep:
+            self.manifest.unlink(missing_ok=True)
+            for folder in (self.parts, self.ev_parts):
+                if folder is not None:
+                    shutil.rmtree(folder, ignore_errors=True)
         self._lock.release()
 
     def _join(self, folder: Path, final: Path, empty: pd.DataFrame | None, schema: Any) -> None:

@@ -10,6 +10,12 @@ the output is identical, byte for byte, to a one-process run because chunks
 are written back in input order.  ``engine="dask"`` runs the same per-chunk
 function on a dask.distributed cluster (see :mod:`pathsieve.cluster`).
 
+A run survives faults: each report has a time budget (an overrun becomes an
+error row); each labelled chunk is written to its own part file with a manifest
+beside the output (:mod:`pathsieve.resume`), the output appears only when the
+run is complete, and ``resume=True`` continues a killed run from its last
+completed chunk, giving the output an uninterrupted run gives.
+
 >>> summary = label_file("examples/demo_reports.csv", "/tmp/labels.csv",
 ...                      LabelOptions("colorectal"), workers=1)
 >>> summary.cases > 0
@@ -18,22 +24,25 @@ True
 
 from __future__ import annotations
 
+import itertools
 import multiprocessing
 import os
 import sys
 from collections import Counter, deque
 from collections.abc import Callable, Iterable, Iterator
 from concurrent.futures import Future, ProcessPoolExecutor
-from dataclasses import dataclass, field
+from dataclasses import asdict, dataclass, field, replace
 from pathlib import Path
 from typing import Any, TypeVar
 
 import pandas as pd
 
-from .errors import ConfigError
+from .budget import DEFAULT_BUDGET
+from .errors import ConfigError, InputError
 from .export import EVIDENCE_COLUMNS, UNCERTAIN_MODES, evidence_schema, label_schema
-from .io import CHUNK_ROWS, TableWriter, read_reports
+from .io import CHUNK_ROWS, read_reports
 from .labeler import Labeler, frame_from_rows
+from .resume import ChunkStore, check_output, input_fingerprint
 
 __all__ = ["ENGINES", "LabelOptions", "RunSummary", "default_workers", "label_file"]
 
@@ -45,12 +54,15 @@ _R = TypeVar("_R")
 
 @dataclass(frozen=True)
 class LabelOptions:
+    """What to label and how; ``time_budget`` is seconds per report (None: no limit)."""
+
     scheme: str
     per: str = "case"
     states: bool = False
     uncertain: str | None = None
     redact: bool = False
     evidence: bool = False
+    time_budget: float | None = DEFAULT_BUDGET
 
 
 @dataclass
@@ -78,6 +90,24 @@ class RunSummary:
         self.evidence_rows += other.evidence_rows
         self.prevalence.update(other.prevalence)
 
+    def to_dict(self) -> dict[str, Any]:
+        """The counts as plain data (a run manifest keeps one per chunk)."""
+        return {
+            "rows": self.rows,
+            "cases": self.cases,
+            "errors": self.errors,
+            "evidence_rows": self.evidence_rows,
+            "prevalence": dict(self.prevalence),
+        }
+
+    @classmethod
+    def from_dict(cls, data: dict[str, Any], label_keys: tuple[str, ...]) -> RunSummary:
+        s = cls(label_keys=label_keys)
+        s.rows, s.cases = int(data["rows"]), int(data["cases"])
+        s.errors, s.evidence_rows = int(data["errors"]), int(data["evidence_rows"])
+        s.prevalence.update({str(k): int(v) for k, v in data["prevalence"].items()})
+        return s
+
 
 @dataclass
 class LabelledChunk:
@@ -93,6 +123,10 @@ def check_options(options: LabelOptions) -> None:
         raise ConfigError(f"--per must be case or part, not {options.per!r}")
     if options.uncertain is not None and options.uncertain not in UNCERTAIN_MODES:
         raise ConfigError(f"--uncertain must be one of {', '.join(UNCERTAIN_MODES)}")
+    if options.time_budget is not None and not options.time_budget > 0:
+        raise ConfigError(
+            f"--time-budget must be a positive number of seconds, not {options.time_budget}"
+        )
 
 
 def label_chunk(
@@ -110,6 +144,7 @@ def label_chunk(
         uncertain=options.uncertain,
         redact=options.redact,
         evidence=options.evidence,
+        time_budget=options.time_budget,
     )
     df = frame_from_rows(rows, labeler.columns(options.per), labeler.scheme, states=options.states)
     evidence = pd.DataFrame(ev, columns=EVIDENCE_COLUMNS) if options.evidence else None
@@ -209,6 +244,7 @@ def label_file(
     engine: str = "local",
     scheduler: str | None = None,
     labeler: Labeler | None = None,
+    resume: bool = False,
 ) -> RunSummary:
     """Label every report of ``input_path`` into ``output`` (and ``evidence_path``).
 
@@ -216,14 +252,22 @@ def label_file(
     address, e.g. ``tcp://10.0.0.5:8786``; without one a local cluster of
     ``workers`` processes is started) and writes partitioned Parquet: ``output``
     and ``evidence_path`` name directories.  ``labeler`` reuses a pipeline
-    already built for ``options.scheme``.
+    already built for ``options.scheme``.  ``resume`` continues a killed local
+    run from its last completed chunk (same input, options and ``chunk_rows``).
     """
     check_options(options)
     if engine not in ENGINES:
         raise ConfigError(f"--engine must be one of {', '.join(ENGINES)}, not {engine!r}")
     if workers < 1:
         raise ConfigError(f"--workers must be at least 1, not {workers}")
+    if chunk_rows < 1:
+        raise ConfigError(f"--chunk-rows must be at least 1, not {chunk_rows}")
     if engine == "dask":
+        if resume:
+            raise ConfigError(
+                "--resume works with --engine local; the dask engine retries the partitions "
+                "of a failed worker itself"
+            )
         from .cluster import label_dask
 
         return label_dask(
@@ -239,27 +283,44 @@ def label_file(
         )
     if scheduler is not None:
         raise ConfigError("--scheduler needs --engine dask")
-    # fails fast on a bad scheme, before anything is written
+    # everything that can be refused is refused before anything is written
+    check_output(output)
+    if evidence_path is not None:
+        check_output(evidence_path, "evidence")
+    if not Path(input_path).exists():
+        raise InputError("input not found; check the path", path=input_path)
     labeler = labeler if labeler is not None else Labeler(options.scheme)
-    opts = LabelOptions(
-        options.scheme,
-        options.per,
-        options.states,
-        options.uncertain,
-        options.redact,
-        evidence=evidence_path is not None,
-    )
+    opts = replace(options, evidence=evidence_path is not None)
     columns = labeler.columns(options.per)
-    schema = label_schema(
-        labeler.scheme, options.per, states=options.states, uncertain=options.uncertain
+    keys = labeler.scheme.label_keys
+    store = ChunkStore(
+        output,
+        evidence_path,
+        identity=_identity(input_path, labeler, opts, evidence_path, id_col, text_col, chunk_rows),
+        resume=resume,
+        schema=label_schema(
+            labeler.scheme, options.per, states=options.states, uncertain=options.uncertain
+        ),
+        evidence_schema=evidence_schema(redact=options.redact),
+        evidence_has_text=not options.redact,
     )
-    writer = TableWriter(output, schema=schema)
-    ev_writer = TableWriter(evidence_path, schema=evidence_schema()) if evidence_path else None
-    summary = RunSummary(label_keys=labeler.scheme.label_keys)
+    summary = RunSummary(label_keys=keys)
+    for done in store.chunks:
+        summary.add(RunSummary.from_dict(done, keys))
+    if store.done:
+        print(
+            f"pathsieve: resuming {output} after {store.done} completed chunk(s) "
+            f"({summary.rows} rows)",
+            file=sys.stderr,
+        )
     pool = None
     bar = None
     try:
-        chunks = _chunks(Path(input_path), id_col, text_col, chunk_rows)
+        # completed chunks are read again (duplicate ids are counted across the whole
+        # input) but not labelled again
+        chunks = itertools.islice(
+            _chunks(Path(input_path), id_col, text_col, chunk_rows), store.done, None
+        )
         results: Iterator[LabelledChunk]
         if workers > 1:
             pool = _pool(workers, options.scheme, labeler)
@@ -267,24 +328,18 @@ def label_file(
         else:
             results = (label_chunk(labeler, opts, c) for c in chunks)
         bar = _progress(progress)  # after the fork: the bar's monitor thread stays here
+        if bar is not None:
+            bar.update(summary.rows)
         for chunk in results:
-            writer.write(chunk.labels)
-            if ev_writer is not None and chunk.evidence is not None:
-                ev_writer.write(chunk.evidence)
+            store.add(chunk.labels, chunk.evidence, chunk.summary.to_dict())
             summary.add(chunk.summary)
             if bar is not None:
                 bar.update(len(chunk.labels))
-        if summary.rows == 0:
-            writer.write(pd.DataFrame(columns=columns))
-        writer.close()
-        if ev_writer is not None:
-            if summary.evidence_rows == 0:
-                ev_writer.write(pd.DataFrame(columns=EVIDENCE_COLUMNS))
-            ev_writer.close()
+        store.finish(pd.DataFrame(columns=columns), pd.DataFrame(columns=EVIDENCE_COLUMNS))
     except BaseException:
-        writer.abort()
-        if ev_writer is not None:
-            ev_writer.abort()
+        # completed chunks stay on disk for --resume; a run that failed before
+        # completing any (a wrong --text-col, say) leaves nothing behind
+        store.close(keep=store.done > 0)
         raise
     finally:
         if pool is not None:
@@ -293,6 +348,35 @@ def label_file(
         if bar is not None:
             bar.close()
     return summary
+
+
+def _identity(
+    input_path: str | Path,
+    labeler: Labeler,
+    options: LabelOptions,
+    evidence_path: str | Path | None,
+    id_col: str,
+    text_col: str,
+    chunk_rows: int,
+) -> dict[str, Any]:
+    """What must not change between a run and its resumption."""
+    from . import __version__
+    from .vocab import file_digest, vocab_dir
+
+    scheme = labeler.scheme
+    vocab = sorted(p for p in vocab_dir().rglob("*") if p.is_file())
+    return {
+        "pathsieve": __version__,
+        "input": input_fingerprint(input_path),
+        "scheme": scheme.name,
+        "scheme_file": file_digest(Path(scheme.path)),
+        "ontology": scheme.ontology.digest,
+        "vocabulary": file_digest(*vocab) if vocab else "",
+        "options": {k: v for k, v in asdict(options).items() if k != "scheme"},
+        "evidence": str(Path(evidence_path).resolve()) if evidence_path is not None else None,
+        "columns": [id_col, text_col],
+        "chunk_rows": chunk_rows,
+    }
 
 
 def _progress(enabled: bool) -> Any:

@@ -77,7 +77,7 @@ BROKEN = [
     ),
     (
         "crlf-unclosed",
-        'S1,"a"\r\nS2,"no close\r\nS3,"b"\r\n',
+        'case_id,text\r\nS1,"a"\r\nS2,"no close\r\nS3,"b"\r\n',
         ["S1", "S2", "S3"],
         ["", "error", ""],
         "line 3",
@@ -92,7 +92,9 @@ def test_broken_quoting_is_one_error_row(
     tmp_path: Path, body: str, ids: list[str], errors: list[str], lines: str
 ) -> None:
     src = tmp_path / "in.csv"
-    src.write_text(HEAD + body, encoding="utf-8", newline="")
+    src.write_text(
+        body if body.startswith("case_id") else HEAD + body, encoding="utf-8", newline=""
+    )
     df = _read(src)
     assert df["case_id"].tolist() == ids
     got = ["error" if e else "" for e in df["error"]]
@@ -108,27 +110,73 @@ def test_broken_quoting_is_one_error_row(
     ("body", "ids", "texts"),
     [
         # extra fields: the first columns are kept
-        ('k1,"a"\nk2,plain text,extra,columns\nk3,"q, c"\n', ["k1", "k2", "k3"], ["a", "plain text", "q, c"]),
+        (
+            'k1,"a"\nk2,plain text,extra,columns\nk3,"q, c"\n',
+            ["k1", "k2", "k3"],
+            ["a", "plain text", "q, c"],
+        ),
         # blank and whitespace-only lines between rows are skipped
         ("k1,a\n\n   \n\t\nk2,b\n", ["k1", "k2"], ["a", "b"]),
-        # mixed line endings between and inside records
-        ('k1,"x\r\ny\rz\nw"\rk2,b\r\nk3,c\n', ["k1", "k2", "k3"], ["x\r\ny\rz\nw", "b", "c"]),
+        # line ends inside quotes kept as written; the header's LF ends every line, so a
+        # CR before an LF is text (csv writers quote a field only for their own line end)
+        ('k1,"x\r\ny\rz\nw"\nk2,b\nk3,c\r\r\n', ["k1", "k2", "k3"], ["x\r\ny\rz\nw", "b", "c\r\r"]),
+        ("k1,a\rb\nk2,c\r\n", ["k1", "k2"], ["a\rb", "c\r"]),
+        # a CRLF header: CRLF ends every line, CRs elsewhere are text
+        (
+            'case_id,text\r\nk1,"x\r\ny"\r\nk2,b\r\r\nk3,c\rd\r\n',
+            ["k1", "k2", "k3"],
+            ["x\r\ny", "b\r", "c\rd"],
+        ),
         # NUL, right-to-left marks, emoji, HTML and RTF remnants inside a field
-        ('k1,"\x00a\u202eb 😀 <b>x</b> {\\rtf1 \\par}"\n', ["k1"], ["\x00a\u202eb 😀 <b>x</b> {\\rtf1 \\par}"]),
+        (
+            'k1,"\x00a\u202eb 😀 <b>x</b> {\\rtf1 \\par}"\n',
+            ["k1"],
+            ["\x00a\u202eb 😀 <b>x</b> {\\rtf1 \\par}"],
+        ),
         # doubled quotes are quotes
         ('k1,"he said ""no"""\n', ["k1"], ['he said "no"']),
     ],
-    ids=["extra-columns", "blank-lines", "line-endings", "odd-characters", "doubled-quotes"],
+    ids=[
+        "extra-columns",
+        "blank-lines",
+        "line-endings",
+        "lone-cr",
+        "crlf-file",
+        "odd-characters",
+        "doubled-quotes",
+    ],
 )
 def test_sound_oddities_keep_every_row(
     tmp_path: Path, body: str, ids: list[str], texts: list[str]
 ) -> None:
     src = tmp_path / "in.csv"
-    src.write_text(HEAD + body, encoding="utf-8", newline="")
+    src.write_text(
+        body if body.startswith("case_id") else HEAD + body, encoding="utf-8", newline=""
+    )
     df = _read(src)
     assert df["case_id"].tolist() == ids
     assert df["text"].tolist() == texts
     assert (df["error"] == "").all()
+
+
+def test_pandas_written_lone_cr_round_trips(tmp_path: Path) -> None:
+    # pandas (like csv.writer with "\n" line ends) leaves a field holding only "\r" unquoted
+    texts = ["line one\rline two", "plain", "\r", "a\r\rb\r"]
+    src = tmp_path / "in.csv"
+    pd.DataFrame({"case_id": ["c1", "c2", "c3", "c4"], "text": texts}).to_csv(src, index=False)
+    assert b'"' not in src.read_bytes()  # really unquoted
+    df = _read(src)
+    assert df["case_id"].tolist() == ["c1", "c2", "c3", "c4"]
+    assert df["text"].tolist() == texts
+
+
+def test_old_macintosh_line_ends(tmp_path: Path) -> None:
+    # no LF anywhere: CR alone ends each line
+    src = tmp_path / "in.csv"
+    src.write_bytes(b'case_id,text\rk1,a\rk2,"b\rc"\r')
+    df = _read(src)
+    assert df["case_id"].tolist() == ["k1", "k2"]
+    assert df["text"].tolist() == ["a", "b\rc"]
 
 
 def test_missing_text_field_is_an_error_row(tmp_path: Path) -> None:

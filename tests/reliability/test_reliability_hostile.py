@@ -57,7 +57,9 @@ def labeler() -> Labeler:
     return Labeler("colorectal")
 
 
-@settings(max_examples=150, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
+@settings(
+    max_examples=150, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture]
+)
 @given(text=hostile_text)
 def test_hostile_text_never_crashes_and_offsets_hold(labeler: Labeler, text: str) -> None:
     rows, evidence = labeler.label_records([("c1", text, "")])
@@ -115,7 +117,7 @@ def test_malformed_csv_rows_are_not_lost(tmp_path: Path) -> None:
     src = tmp_path / "bad.csv"
     src.write_text(
         'case_id,text\nk1,"DIAGNOSIS: tubular adenoma."\nk2,plain text,extra,columns\n'
-        "k3,\"quoted, with comma\"\n",
+        'k3,"quoted, with comma"\n',
         encoding="utf-8",
     )
     out = tmp_path / "out.csv"
@@ -124,7 +126,9 @@ def test_malformed_csv_rows_are_not_lost(tmp_path: Path) -> None:
     assert df["case_id"].tolist() == ["k1", "k2", "k3"]
 
 
-def test_latin1_input_is_read_and_reported(tmp_path: Path, capsys: pytest.CaptureFixture[str]) -> None:
+def test_latin1_input_is_read_and_reported(
+    tmp_path: Path, capsys: pytest.CaptureFixture[str]
+) -> None:
     src = tmp_path / "latin1.csv"
     src.write_bytes("case_id,text\nz1,Adénocarcinome; tubular adenoma\n".encode("latin-1"))
     out = tmp_path / "out.csv"

@@ -25,7 +25,7 @@ from pathsieve.runner import LabelOptions, label_file
 
 distributed = pytest.importorskip("distributed")
 
-N = 150
+N = 100
 PARTITION_ROWS = 40
 CHUNK_ROWS = 20
 
@@ -199,10 +199,10 @@ def test_parquet_integer_ids_and_repeats(client: Any, tmp_path: Path) -> None:
     import pyarrow as pa
     import pyarrow.parquet as pq
 
-    texts = [r.text for r in _corpus().generate(90, seed=8, organ="lung")]
-    ids: list[int | None] = list(range(1000, 1090))
+    texts = [r.text for r in _corpus().generate(70, seed=8, organ="lung")]
+    ids: list[int | None] = list(range(1000, 1070))
     ids[4] = None
-    ids[80] = ids[10]  # repeated three partitions later
+    ids[60] = ids[10]  # repeated three partitions later
     src = tmp_path / "ints.parquet"
     table = pa.table({"case_id": pa.array(ids, pa.int64()), "text": texts})
     pq.write_table(table, src, row_group_size=20)
@@ -217,4 +217,4 @@ def test_parquet_integer_ids_and_repeats(client: Any, tmp_path: Path) -> None:
     labels, _ = _local(src, tmp_path, LabelOptions("lung"))
     pd.testing.assert_frame_equal(_parts(tmp_path / "labels"), labels)
     assert summary.errors == 2
-    assert any("row 81: duplicate case id" in e for e in labels["error"])
+    assert any("row 61: duplicate case id" in e for e in labels["error"])

@@ -36,10 +36,10 @@ def _corpus() -> ModuleType:
 
 @pytest.fixture(scope="module")
 def records() -> list[tuple[str, str, str]]:
-    texts = [r.text for r in _corpus().generate(60, seed=21, organ="mixed")]
+    texts = [r.text for r in _corpus().generate(40, seed=21, organ="mixed")]
     demo = REPO / "examples" / "demo_reports.csv"
     if demo.exists():  # hand-written awkward cases: addenda, hedges, odd layouts
-        texts += pd.read_csv(demo)["text"].fillna("").tolist()[:90]
+        texts += pd.read_csv(demo)["text"].fillna("").tolist()[:60]
     return [(f"c{i}", t, "") for i, t in enumerate(texts)]
 
 

@@ -44,7 +44,7 @@ def _reports(n: int, organ: str) -> pd.DataFrame:
 @pytest.fixture(scope="module")
 def export(tmp_path_factory: pytest.TempPathFactory) -> Path:
     path = tmp_path_factory.mktemp("mc") / "reports.csv"
-    _reports(160, "mixed").to_csv(path, index=False)
+    _reports(100, "mixed").to_csv(path, index=False)
     return path
 
 
@@ -72,9 +72,9 @@ def test_two_workers_write_the_same_bytes(
     assert one[2] == two[2]  # same counts
     table = pd.read_csv(tmp_path / "labels1.csv", keep_default_na=False)
     assert (table["status"] == "error").sum() == 3  # no id, repeated id, no text
-    assert one[2].cases == 160
+    assert one[2].cases == 100
     if evidence:
-        assert one[2].evidence_rows > 160
+        assert one[2].evidence_rows > 100
 
 
 def test_cli_workers_flag(export: Path, tmp_path: Path) -> None:

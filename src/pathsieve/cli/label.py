@@ -6,7 +6,9 @@ import argparse
 import sys
 from typing import Any
 
+from ..budget import BUDGET_CHARS, DEFAULT_BUDGET
 from ..export import UNCERTAIN_MODES
+from ..io import CHUNK_ROWS
 from ..runner import ENGINES, LabelOptions, default_workers, label_file
 
 __all__ = ["register", "run"]
@@ -64,7 +66,28 @@ def register(sub: Any) -> None:
     p.add_argument(
         "--redact-evidence",
         action="store_true",
-        help="evidence without matched text (offsets and concept ids only)",
+        help="evidence without matched text (offsets and concept ids only); unredacted "
+        "evidence holds report text and gets a <evidence>.PHI.txt notice beside it",
+    )
+    p.add_argument(
+        "--time-budget",
+        type=float,
+        default=DEFAULT_BUDGET,
+        metavar="SECONDS",
+        help=f"seconds allowed per report (per {BUDGET_CHARS:,} characters of a longer one); "
+        f"a report that overruns becomes an error row (default {DEFAULT_BUDGET:g}; 0: no limit)",
+    )
+    p.add_argument(
+        "--chunk-rows",
+        type=int,
+        default=CHUNK_ROWS,
+        help=f"reports per chunk, the unit of progress kept for --resume (default {CHUNK_ROWS})",
+    )
+    p.add_argument(
+        "--resume",
+        action="store_true",
+        help="continue a killed run of the same command from its last completed chunk "
+        "(kept in <output>.parts/ with <output>.manifest.json)",
     )
     p.add_argument("--no-progress", action="store_true", help="no progress bar")
     p.set_defaults(func=run)
@@ -77,6 +100,7 @@ def run(args: argparse.Namespace) -> int:
         states=args.states,
         uncertain=args.uncertain,
         redact=args.redact_evidence,
+        time_budget=args.time_budget or None,
     )
     summary = label_file(
         args.input,
@@ -89,6 +113,8 @@ def run(args: argparse.Namespace) -> int:
         progress=not args.no_progress and sys.stderr.isatty(),
         engine=args.engine,
         scheduler=args.scheduler,
+        chunk_rows=args.chunk_rows,
+        resume=args.resume,
     )
     print(summary.text(), file=sys.stderr)
     print(
