@@ -11,7 +11,7 @@ moment the quoting stops making sense (a closing quote followed by a letter, or
 the end of the file inside quotes).  The record that broke becomes an error
 row, named by its first line; its following lines are parsed again from the
 line after it, so the rows it swallowed come back as rows of their own.  Lines
-that, read again, do not look like records (wrong number of fields, a first
+that, read again, do not look like records (fewer fields than the header, a first
 field not shaped like the first fields of the sound rows: ``HV25-S000001`` has
 the shape ``a9-a9``; before any sound row, one without a digit or with a space)
 are counted into the broken row, whose error names every line it covers.  Nothing is merged
@@ -257,24 +257,30 @@ def read_delimited(
         line_nos.append(line)
         problems.append(problem)
 
-    def looks_like_record(rec: list[str], *, exact: bool = True) -> bool:
-        # after a break, a line starts a row again only if it has the header's width and
-        # a first field shaped like those of the sound rows so far (report text seldom is)
+    def looks_like_record(rec: list[str]) -> bool:
+        # after a break, a line starts a row again only if it has at least the header's
+        # fields and a first field shaped like those of the sound rows so far (report
+        # text seldom is)
         key = rec[0].strip()
-        if (len(rec) != width if exact else len(rec) < width) or not 0 < len(key) <= _MAX_KEY:
+        if len(rec) < width or not 0 < len(key) <= _MAX_KEY:
             return False
         if not shapes:  # the first row broke: nothing learnt yet; ids hold digits, no spaces
             return any(c.isdigit() for c in key) and not any(c.isspace() for c in key)
         return len(shapes) >= _MAX_SHAPES or key_shape(key) in shapes
 
-    def frame() -> pd.DataFrame:
+    def frame(n: int) -> pd.DataFrame:
+        """The first ``n`` rows collected, as a chunk (removed from the lists)."""
         assert names is not None
-        df = pd.DataFrame(rows, columns=names, dtype=object)
-        df[LINE_COL] = line_nos
-        df[PROBLEM_COL] = problems
+        df = pd.DataFrame(rows[:n], columns=names, dtype=object)
+        df[LINE_COL] = line_nos[:n]
+        df[PROBLEM_COL] = problems[:n]
+        del rows[:n], line_nos[:n], problems[:n]
         return df
 
     while True:
+        if len(rows) >= chunk_rows:  # whole chunks, however many rows one line gave
+            yield frame(chunk_rows)
+            yielded = True
         src.start_record()
         try:
             rec = next(reader)
@@ -291,7 +297,7 @@ def read_delimited(
                     line=taken[0][0],
                 ) from exc
             fields = _salvage(taken[0][1], delimiter)
-            if broken is not None and looks_like_record(fields, exact=False):
+            if broken is not None and looks_like_record(fields):
                 # a second broken row right after the first: each is a row of its own
                 emit(broken.fields, broken.first, broken.message())
                 broken = None
@@ -323,16 +329,15 @@ def read_delimited(
         elif len(shapes) < _MAX_SHAPES:
             shapes.add(key_shape(rec[0]))
         emit(rec, first, "")
-        if len(rows) >= chunk_rows:
-            yield frame()
-            yielded = True
-            rows, line_nos, problems = [], [], []
     if broken is not None:
         emit(broken.fields, broken.first, broken.message())
     if names is None:
         raise InputError("the file is empty (no header row)", path=source)
+    while len(rows) > chunk_rows:
+        yield frame(chunk_rows)
+        yielded = True
     if rows or not yielded:
-        yield frame()  # an export with a header and no rows still has its columns checked
+        yield frame(len(rows))  # a header and no rows: the columns are still checked
     if wide_rows and warn is not None:
         warn(
             f"{source}: {wide_rows} row(s) had more fields than the header's {width}; "

@@ -172,9 +172,14 @@ class ChunkStore:
         self._warn = warn
         created: list[Path] = []
         try:
-            for d in (self.parts, self.ev_parts):
+            for d, target in ((self.parts, self.output), (self.ev_parts, self.evidence)):
                 if d is not None and not d.is_dir():
-                    d.mkdir()
+                    try:
+                        d.mkdir()
+                    except OSError as exc:
+                        raise ConfigError(
+                            f"cannot write {target}: {exc.strerror or exc}; check the path"
+                        ) from exc
                     created.append(d)
             if not self._lock.acquire():
                 raise ConfigError(

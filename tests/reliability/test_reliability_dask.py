@@ -118,7 +118,10 @@ def test_killed_worker_is_retried_and_budget_holds_in_threads(
         )
         assert time.monotonic() - started < 50
         got2 = pd.read_parquet(out2).reset_index(drop=True)
-        assert got2.loc[13, "error"] == f"case {df.loc[13, 'case_id']}: exceeded the time budget of 1 s"
+        assert (
+            got2.loc[13, "error"]
+            == f"case {df.loc[13, 'case_id']}: exceeded the time budget of 1 s"
+        )
         same = got2.drop(index=13).reset_index(drop=True)
         same["error"] = same["error"].str.replace(str(slow_src), str(src), regex=False)
         pd.testing.assert_frame_equal(

@@ -62,9 +62,7 @@ def _interrupt_at(monkeypatch: pytest.MonkeyPatch, n: int) -> None:
     monkeypatch.setattr(runner, "label_chunk", flaky)
 
 
-def _run(
-    src: Path, out: Path, ev: Path | None, labeler: Labeler, **kw: Any
-) -> runner.RunSummary:
+def _run(src: Path, out: Path, ev: Path | None, labeler: Labeler, **kw: Any) -> runner.RunSummary:
     opts = kw.pop("options", LabelOptions("colorectal"))
     return label_file(
         src, out, opts, evidence_path=ev, workers=1, chunk_rows=CHUNK, labeler=labeler, **kw
@@ -193,7 +191,9 @@ def test_resume_refuses_a_different_run(
         ev = tmp_path / "ev.jsonl"
     with pytest.raises(ConfigError, match=f"--resume: .*{named}.* changed"):
         if change == "chunk_rows":
-            label_file(src, out, LabelOptions("colorectal"), chunk_rows=5, labeler=labeler, resume=True)
+            label_file(
+                src, out, LabelOptions("colorectal"), chunk_rows=5, labeler=labeler, resume=True
+            )
         else:
             _run(src, out, ev, labeler, **kw)
     assert not out.exists()
@@ -251,14 +251,18 @@ def test_resume_after_interrupted_join(
     labelled: list[int] = []
     real = runner.label_chunk
     monkeypatch.setattr(
-        runner, "label_chunk", lambda *a: labelled.append(1) or real(*a)  # type: ignore[func-returns-value]
+        runner,
+        "label_chunk",
+        lambda *a: labelled.append(1) or real(*a),  # type: ignore[func-returns-value]
     )
     _run(export, out, None, labeler, resume=True)
     assert labelled == []
     assert out.read_bytes() == ref.read_bytes()
 
 
-def test_failure_before_any_chunk_leaves_nothing(tmp_path: Path, export: Path, labeler: Labeler) -> None:
+def test_failure_before_any_chunk_leaves_nothing(
+    tmp_path: Path, export: Path, labeler: Labeler
+) -> None:
     out = tmp_path / "out.csv"
     with pytest.raises(InputError, match="column 'report' not found"):
         _run(export, out, tmp_path / "ev.jsonl", labeler, text_col="report")
