@@ -342,6 +342,7 @@ def _check(
             tally.note(f"{fmt}: {error}")
         if "exceeded the time budget" in error:
             tally.timeouts += 1
+            tally.note(f"{fmt}: timeout: {c.kind} case {row['case_id']!r}, {len(c.text)} chars")
         elif (c.expect == "ok") != (status == "ok") and c.expect != "any":
             tally.unexpected += 1
             tally.note(f"{fmt}: {c.kind} case {row['case_id']!r} expected {c.expect}, got {status}")

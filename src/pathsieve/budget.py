@@ -5,17 +5,22 @@ megabyte of one token).  :class:`TimeBudget` bounds the time spent on each
 report: when a report overruns, :class:`BudgetExceeded` is raised inside the
 labelling code and the caller turns the report into an error row.
 
-How the clock interrupts the work depends on the thread:
+The budget counts **CPU time**, not wall-clock time: on a shared machine a
+report must not fail because other processes took the cores (a wall-clock
+budget would make the output depend on the machine's load).  How the clock
+interrupts the work depends on the thread:
 
 * on the main thread (the ``pathsieve label`` process and its worker
-  processes) a ``SIGALRM`` interval timer (``signal.setitimer``) fires; Python
-  runs the handler between bytecodes and inside the regex engine, so even a
-  backtracking ``re`` match is stopped.  The previous handler and any timer
-  already running are restored afterwards.
+  processes) a ``SIGVTALRM`` interval timer (``signal.setitimer`` with
+  ``ITIMER_VIRTUAL``, the process's CPU time) fires; Python runs the handler
+  between bytecodes and inside the regex engine, so even a backtracking ``re``
+  match is stopped.  The previous handler and any such timer already running
+  are restored afterwards.
 * on any other thread (dask runs tasks in a worker's thread pool) signals
-  cannot be used; a watchdog thread raises the exception asynchronously in the
-  labelling thread.  That is checked between bytecodes only, so a single long
-  call into C (one huge regex match) overruns until it returns.
+  cannot be used; a watchdog thread reads the labelling thread's CPU clock and
+  raises the exception asynchronously in it.  That is checked between
+  bytecodes only, so a single long call into C (one huge regex match) overruns
+  until it returns.
 
 The allowance grows with the text: ``seconds`` for a report of up to
 :data:`BUDGET_CHARS` characters, proportionally more for a longer one, so a
@@ -34,6 +39,7 @@ from __future__ import annotations
 import ctypes
 import signal
 import threading
+import time
 from collections.abc import Iterator
 from contextlib import contextmanager
 from types import FrameType, TracebackType
@@ -41,7 +47,7 @@ from typing import Any
 
 __all__ = ["BUDGET_CHARS", "DEFAULT_BUDGET", "BudgetExceeded", "TimeBudget"]
 
-#: Default seconds per report (per :data:`BUDGET_CHARS` characters of a longer one).
+#: Default CPU seconds per report (per :data:`BUDGET_CHARS` characters of a longer one).
 DEFAULT_BUDGET = 60.0
 #: Reports longer than this many characters get a proportionally larger allowance.
 BUDGET_CHARS = 1_000_000
@@ -56,7 +62,7 @@ class BudgetExceeded(BaseException):
 
 
 class TimeBudget:
-    """Bound the time of each :meth:`watch` block; use as a context manager.
+    """Bound the CPU time of each :meth:`watch` block; use as a context manager.
 
     ``seconds`` of ``None`` or ``0`` means no budget (the blocks run unbounded).
     """
@@ -83,9 +89,9 @@ class TimeBudget:
         on_main = threading.current_thread() is threading.main_thread()
         if on_main and hasattr(signal, "setitimer"):
             self._signals = True
-            self._old_handler = signal.signal(signal.SIGALRM, self._on_alarm)
+            self._old_handler = signal.signal(signal.SIGVTALRM, self._on_alarm)
             # a timer someone else armed is paused here and re-armed on exit
-            self._old_timer = signal.setitimer(signal.ITIMER_REAL, 0)
+            self._old_timer = signal.setitimer(signal.ITIMER_VIRTUAL, 0)
         else:
             self._watchdog = _Watchdog(threading.get_ident())
         return self
@@ -95,11 +101,11 @@ class TimeBudget:
     ) -> None:
         if self._signals:
             self._armed = False
-            signal.setitimer(signal.ITIMER_REAL, 0)
-            signal.signal(signal.SIGALRM, self._old_handler)
+            signal.setitimer(signal.ITIMER_VIRTUAL, 0)
+            signal.signal(signal.SIGVTALRM, self._old_handler)
             delay, interval = self._old_timer
             if delay > 0:
-                signal.setitimer(signal.ITIMER_REAL, delay, interval)
+                signal.setitimer(signal.ITIMER_VIRTUAL, delay, interval)
             self._signals = False
         if self._watchdog is not None:
             self._watchdog.stop()
@@ -122,12 +128,12 @@ class TimeBudget:
         limit = self.allowance(chars)
         if self._signals:
             self._armed = True
-            signal.setitimer(signal.ITIMER_REAL, limit)
+            signal.setitimer(signal.ITIMER_VIRTUAL, limit)
             try:
                 yield
             finally:
                 self._armed = False  # first: a late alarm now does nothing
-                signal.setitimer(signal.ITIMER_REAL, 0)
+                signal.setitimer(signal.ITIMER_VIRTUAL, 0)
         elif self._watchdog is not None:
             self._watchdog.arm(limit)
             try:
@@ -142,10 +148,17 @@ class TimeBudget:
 
 
 class _Watchdog:
-    """A thread that raises :class:`BudgetExceeded` in another thread at a deadline."""
+    """A thread that raises :class:`BudgetExceeded` in another thread once that
+    thread has used its allowance of CPU time (wall-clock time where the platform
+    has no per-thread CPU clock)."""
 
     def __init__(self, target: int) -> None:
         self._target = target
+        try:
+            clock = time.pthread_getcpuclockid(target)
+            self._now: Any = lambda: time.clock_gettime(clock)
+        except (AttributeError, OSError):  # pragma: no cover - not on Linux/BSD
+            self._now = time.monotonic
         self._cond = threading.Condition()
         self._deadline: float | None = None
         self._fired = False
@@ -154,11 +167,9 @@ class _Watchdog:
         self._thread.start()
 
     def arm(self, seconds: float) -> None:
-        import time
-
         with self._cond:
             self._fired = False
-            self._deadline = time.monotonic() + seconds
+            self._deadline = self._now() + seconds
             self._cond.notify()
 
     def disarm(self) -> bool:
@@ -180,16 +191,15 @@ class _Watchdog:
         self._thread.join()
 
     def _run(self) -> None:
-        import time
-
         with self._cond:
             while not self._stopped:
                 if self._deadline is None:
                     self._cond.wait()
                     continue
-                left = self._deadline - time.monotonic()
+                left = self._deadline - self._now()
                 if left > 0:
-                    self._cond.wait(left)
+                    # CPU time passes no faster than wall time: sleep until it may be up
+                    self._cond.wait(max(left, 0.001))
                     continue
                 self._deadline = None
                 self._fired = True

@@ -1,8 +1,8 @@
 """A per-report time budget: an overrunning report becomes an error row, the run goes on.
 
-The clock is a SIGALRM interval timer on the main thread (the CLI process and
-its worker processes) and a watchdog thread elsewhere (dask runs tasks in
-threads).  Slow reports are made slow on purpose (a busy loop in a wrapped
+The clock counts CPU time: a SIGVTALRM interval timer on the main thread (the
+CLI process and its worker processes) and a watchdog thread reading the
+thread's CPU clock elsewhere (dask runs tasks in threads).  Slow reports are made slow on purpose (a busy loop in a wrapped
 reader), far beyond a small budget, so the tests do not depend on machine speed.
 """
 
@@ -74,29 +74,41 @@ def test_overrunning_report_becomes_an_error_row(labeler: Labeler, evidence: boo
 
 
 def test_no_budget_means_no_clock(labeler: Labeler) -> None:
-    before = signal.getsignal(signal.SIGALRM)
+    before = signal.getsignal(signal.SIGVTALRM)
     rows, _ = labeler.label_records(RECORDS[:1], time_budget=None)
     assert rows[0]["status"] == "ok"
-    assert signal.getsignal(signal.SIGALRM) is before
+    assert signal.getsignal(signal.SIGVTALRM) is before
 
 
-def test_budget_restores_the_callers_handler_and_timer(labeler: Labeler) -> None:
+def test_budget_restores_the_callers_handler_and_timers(labeler: Labeler) -> None:
     fired: list[int] = []
 
     def mine(signum: int, frame: object) -> None:
         fired.append(signum)
 
-    old = signal.signal(signal.SIGALRM, mine)
+    old_v = signal.signal(signal.SIGVTALRM, mine)
+    old_r = signal.signal(signal.SIGALRM, mine)
     try:
+        signal.setitimer(signal.ITIMER_VIRTUAL, 120)
         signal.setitimer(signal.ITIMER_REAL, 120)
         labeler.label_records(RECORDS[:3], time_budget=0.3)
-        assert signal.getsignal(signal.SIGALRM) is mine
+        assert signal.getsignal(signal.SIGVTALRM) is mine
+        remaining, _ = signal.getitimer(signal.ITIMER_VIRTUAL)
+        assert 60 < remaining <= 121  # the caller's CPU timer was paused, not lost
         remaining, _ = signal.getitimer(signal.ITIMER_REAL)
-        assert 60 < remaining <= 120  # the caller's timer was paused, not lost
+        assert 60 < remaining <= 121  # and a wall-clock timer is left alone
         assert fired == []
     finally:
+        signal.setitimer(signal.ITIMER_VIRTUAL, 0)
         signal.setitimer(signal.ITIMER_REAL, 0)
-        signal.signal(signal.SIGALRM, old)
+        signal.signal(signal.SIGVTALRM, old_v)
+        signal.signal(signal.SIGALRM, old_r)
+
+
+def test_budget_counts_cpu_time_not_waiting(labeler: Labeler) -> None:
+    """A report is not failed for time the machine spent elsewhere (here: asleep)."""
+    with TimeBudget(0.2) as budget, budget.watch():
+        time.sleep(0.5)  # wall time passes, CPU time does not
 
 
 def test_budget_in_a_thread_uses_the_watchdog(labeler: Labeler) -> None:
