@@ -11,12 +11,21 @@ moment the quoting stops making sense (a closing quote followed by a letter, or
 the end of the file inside quotes).  The record that broke becomes an error
 row, named by its first line; its following lines are parsed again from the
 line after it, so the rows it swallowed come back as rows of their own.  Lines
-that, read again, do not look like records (fewer fields than the header, a first
-field not shaped like the first fields of the sound rows: ``HV25-S000001`` has
-the shape ``a9-a9``; before any sound row, one without a digit or with a space)
-are counted into the broken row, whose error names every line it covers.  Nothing is merged
-silently: each input line ends up in exactly one row or in one error row that
-names it.
+that, read again, do not look like records are counted into the broken row,
+whose error names every line it covers: fewer fields than the header, or a
+first field not shaped like those of the sound rows (``HV25-S000001`` has the
+shape ``a9-a9``; before any sound row, one without a digit or with a space).
+Nothing is merged silently: each input line ends up in exactly one row, or in
+one error row that names it.
+
+The limit of the approach: a line of report text inside a broken row that
+happens to look exactly like a record (the header's number of fields, and a
+first field shaped like the case ids) is read as a row of its own.
+
+A carriage return inside a line is text, not a line end, in a file whose lines
+end in LF or CRLF (csv writers quote a field only for their own line end, so a
+lone CR often stands unquoted); a file with CRs and no LF at all has CR line
+ends.
 
 Everything else follows the strict :mod:`csv` reading that partition planning
 (:mod:`pathsieve.cluster`) uses, so both count the same rows: a line with no
@@ -25,7 +34,8 @@ columns (with a warning); a row with missing fields is padded with empty ones.
 
 >>> import io
 >>> text = 'case_id,text\\nA1,"fine"\\nA2,"never closed\\nA3,"fine again"\\n'
->>> chunk = next(read_delimited(io.StringIO(text, newline=""), delimiter=",", chunk_rows=10))
+>>> lines = io.StringIO(text, newline="\\n")
+>>> chunk = next(read_delimited(lines, delimiter=",", chunk_rows=10))
 >>> chunk["case_id"].tolist(), [bool(p) for p in chunk[PROBLEM_COL]]
 (['A1', 'A2', 'A3'], [False, True, False])
 """

@@ -53,3 +53,11 @@ def reports(n: int, *, seed: int = 3, join: int = 1) -> pd.DataFrame:
 def make_reports() -> object:
     """:func:`reports` as a fixture."""
     return reports
+
+
+@pytest.fixture(scope="session")
+def colorectal() -> object:
+    """One shared colorectal pipeline for the tests that do not alter it."""
+    from pathsieve import Labeler
+
+    return Labeler("colorectal")

@@ -1,10 +1,12 @@
 """Bad configuration: one clear line on stderr, a non-zero exit, nothing written.
 
-Each case runs ``pathsieve label`` in its own subprocess (all started at once,
-then checked one by one) in a fresh folder holding only the input: a broken or
-missing scheme, an unknown scheme name, a missing or corrupt ontology, an
-output that cannot be written, bad option values.  The folder must hold
-exactly what it held before: no table, no ``.partial``, no manifest, no parts.
+Each case runs ``pathsieve label`` in a fresh folder holding only the input: a
+broken or missing scheme, an unknown scheme name, a missing or corrupt
+ontology, an output that cannot be written, bad option values.  The folder
+must hold exactly what it held before: no table, no ``.partial``, no manifest,
+no parts.  Every case runs through the command's ``main``; four of them also
+run as real processes (started at once), so exit status and stderr are those
+a shell sees.
 """
 
 from __future__ import annotations
@@ -18,6 +20,8 @@ from pathlib import Path
 
 import pytest
 
+from pathsieve.cli import main
+
 REPO = Path(__file__).resolve().parents[2]
 REPORTS = "case_id,text\nC1,DIAGNOSIS: Sigmoid colon: tubular adenoma.\nC2,DIAGNOSIS: Rectum: adenocarcinoma.\n"
 
@@ -27,7 +31,7 @@ def _unwritable(work: Path) -> Path:
     if os.geteuid() == 0:
         return Path("/proc")
     ro = work / "read-only"
-    ro.mkdir()
+    ro.mkdir(exist_ok=True)
     ro.chmod(0o500)
     return ro
 
@@ -87,50 +91,71 @@ def _setup(case: Case, work: Path) -> dict[str, str]:
     return env
 
 
-@pytest.fixture(scope="module")
-def runs(tmp_path_factory: pytest.TempPathFactory) -> dict[str, tuple[int, str, Path, set[str]]]:
-    """Every case, run in parallel: (exit code, stderr, folder, what the folder held before)."""
-    started = {}
-    for case in CASES:
-        work = tmp_path_factory.mktemp(case.name)
-        (work / "reports.csv").write_text(REPORTS, encoding="utf-8")
-        env = _setup(case, work)
-        ro = _unwritable(work)
-        before = {p.name for p in work.iterdir()}
-        args = [a.format(work=work, ro=ro) for a in case.args]
-        source = str(work / "reports.csv")
-        if "--input-override" in args:
-            i = args.index("--input-override")
-            source = args[i + 1]
-            del args[i : i + 2]
-        argv = [sys.executable, "-m", "pathsieve", "label", source, *args, "--workers", "1"]
-        proc = subprocess.Popen(
-            argv, env=env, cwd=work, stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True
-        )
-        started[case.name] = (proc, work, before)
-    out = {}
-    for name, (proc, work, before) in started.items():
-        _, err = proc.communicate(timeout=300)
-        out[name] = (proc.returncode, err, work, before)
-    return out
+def _argv(case: Case, work: Path) -> list[str]:
+    ro = _unwritable(work)
+    args = [a.format(work=work, ro=ro) for a in case.args]
+    source = str(work / "reports.csv")
+    if "--input-override" in args:
+        i = args.index("--input-override")
+        source = args[i + 1]
+        del args[i : i + 2]
+    return ["label", source, *args, "--workers", "1"]
 
 
-@pytest.mark.parametrize("case", CASES, ids=[c.name for c in CASES])
-def test_bad_configuration_is_one_line_and_writes_nothing(
-    runs: dict[str, tuple[int, str, Path, set[str]]], case: Case
-) -> None:
-    code, err, work, before = runs[case.name]
+def _prepare(case: Case, root: Path) -> tuple[Path, dict[str, str], set[str]]:
+    work = root / case.name
+    work.mkdir()
+    (work / "reports.csv").write_text(REPORTS, encoding="utf-8")
+    env = _setup(case, work)
+    _unwritable(work)
+    return work, env, {p.name for p in work.iterdir()}
+
+
+def _check(case: Case, code: int, err: str, work: Path, before: set[str]) -> None:
     lines = err.strip().splitlines()
     assert code == 1, err
     assert len(lines) == 1, err  # one line, no traceback
     assert lines[0].startswith("pathsieve: error: "), err
     assert case.expect in lines[0], err
     assert {p.name for p in work.iterdir()} == before  # nothing written
-    ro = _unwritable_path(work)
-    if ro is not None:
-        assert not any(p.name.startswith("pathsieve-") for p in ro.iterdir())
-
-
-def _unwritable_path(work: Path) -> Path | None:
     ro = work / "read-only"
-    return ro if ro.is_dir() else None
+    if ro.is_dir():
+        assert not any(ro.iterdir())
+
+
+@pytest.mark.parametrize("case", CASES, ids=[c.name for c in CASES])
+def test_bad_configuration_is_one_line_and_writes_nothing(
+    case: Case,
+    tmp_path: Path,
+    monkeypatch: pytest.MonkeyPatch,
+    capsys: pytest.CaptureFixture[str],
+) -> None:
+    """The command as a notebook or a job runner calls it: ``pathsieve.cli.main``."""
+    work, env, before = _prepare(case, tmp_path)
+    for key in ("PATHSIEVE_VOCAB", "PATHSIEVE_CACHE"):
+        if key in env:
+            monkeypatch.setenv(key, env[key])
+    monkeypatch.chdir(work)
+    code = main(_argv(case, work))
+    captured = capsys.readouterr()
+    assert captured.out == ""
+    _check(case, code, captured.err, work, before)
+
+
+SUBPROCESS = ["unknown-scheme", "ontology-corrupt", "output-unwritable", "text-column-missing"]
+
+
+def test_bad_configuration_in_a_real_process(tmp_path: Path) -> None:
+    """The same through the installed entry point, in processes of their own (run at once)."""
+    started = []
+    for case in (c for c in CASES if c.name in SUBPROCESS):
+        work, env, before = _prepare(case, tmp_path)
+        argv = [sys.executable, "-m", "pathsieve", *_argv(case, work)]
+        proc = subprocess.Popen(
+            argv, env=env, cwd=work, stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True
+        )
+        started.append((case, proc, work, before))
+    for case, proc, work, before in started:
+        out, err = proc.communicate(timeout=300)
+        assert out == ""
+        _check(case, proc.returncode, err, work, before)

@@ -19,6 +19,7 @@ import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
+from pathsieve import Labeler
 from pathsieve.delimited import PROBLEM_COL, key_shape, read_delimited
 from pathsieve.errors import InputError
 from pathsieve.io import read_reports, sniff_csv
@@ -244,16 +245,16 @@ def test_unusable_files_are_one_clear_error(tmp_path: Path, data: bytes, message
         _read(src)
 
 
-def test_header_only_file_is_an_empty_table(tmp_path: Path) -> None:
+def test_header_only_file_is_an_empty_table(tmp_path: Path, colorectal: Labeler) -> None:
     src = tmp_path / "in.csv"
     src.write_text(HEAD, encoding="utf-8")
     out = tmp_path / "out.csv"
-    summary = label_file(src, out, LabelOptions("colorectal"), workers=1)
+    summary = label_file(src, out, LabelOptions("colorectal"), workers=1, labeler=colorectal)
     assert summary.cases == 0
     assert out.read_text(encoding="utf-8").startswith("case_id,status,error")
 
 
-def test_run_reports_a_broken_row_and_labels_the_rest(tmp_path: Path) -> None:
+def test_run_reports_a_broken_row_and_labels_the_rest(tmp_path: Path, colorectal: Labeler) -> None:
     src = tmp_path / "in.csv"
     src.write_text(
         HEAD + 'S1,"DIAGNOSIS: tubular adenoma."\nS2,"DIAGNOSIS: no close\n'
@@ -261,7 +262,7 @@ def test_run_reports_a_broken_row_and_labels_the_rest(tmp_path: Path) -> None:
         encoding="utf-8",
     )
     out = tmp_path / "out.csv"
-    label_file(src, out, LabelOptions("colorectal"), workers=1)
+    label_file(src, out, LabelOptions("colorectal"), workers=1, labeler=colorectal)
     df = pd.read_csv(out, dtype=str, keep_default_na=False)
     assert df["case_id"].tolist() == ["S1", "S2", "S3"]
     assert df["status"].tolist() == ["ok", "error", "ok"]

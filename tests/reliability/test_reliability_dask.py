@@ -71,11 +71,11 @@ def _arm_slow() -> str:
 def test_killed_worker_is_retried_and_budget_holds_in_threads(
     tmp_path: Path, make_reports: Callable[..., Any]
 ) -> None:
-    df = make_reports(60)
+    df = make_reports(32)
     src = tmp_path / "reports.csv"
     df.to_csv(src, index=False)
     ref = tmp_path / "ref.parquet"
-    label_file(src, ref, LabelOptions("colorectal"), workers=1, chunk_rows=10)
+    label_file(src, ref, LabelOptions("colorectal"), workers=1, chunk_rows=4)
     slow_src = tmp_path / "slow.csv"
     slow = df.copy()
     slow.loc[13, "text"] = f"DIAGNOSIS: {SLOW} adenocarcinoma."
@@ -94,14 +94,14 @@ def test_killed_worker_is_retried_and_budget_holds_in_threads(
             out,
             LabelOptions("colorectal"),
             client=client,
-            partition_rows=20,
-            chunk_rows=10,
+            partition_rows=8,
+            chunk_rows=4,
         )
         assert marker.exists()  # a worker really died mid-run
         got = pd.read_parquet(out)
         want = pd.read_parquet(ref)
         pd.testing.assert_frame_equal(got.reset_index(drop=True), want, check_dtype=False)
-        assert summary.cases == 60
+        assert summary.cases == 32
 
         # dask labels in worker threads: the budget's watchdog, not SIGALRM, stops a report
         client.wait_for_workers(2)
@@ -113,8 +113,8 @@ def test_killed_worker_is_retried_and_budget_holds_in_threads(
             out2,
             LabelOptions("colorectal", time_budget=1.0),
             client=client,
-            partition_rows=20,
-            chunk_rows=10,
+            partition_rows=8,
+            chunk_rows=4,
         )
         assert time.monotonic() - started < 50
         got2 = pd.read_parquet(out2).reset_index(drop=True)

@@ -47,13 +47,12 @@ def _csv_with_every_error_path(path: Path) -> None:
     path.write_bytes(body.encode("latin-1"))
 
 
-def _run_cli(*args: str) -> subprocess.CompletedProcess[str]:
-    return subprocess.run(
+def _start_cli(*args: str) -> subprocess.Popen[str]:
+    return subprocess.Popen(
         [sys.executable, "-m", "pathsieve", "label", *args, "--workers", "1"],
-        capture_output=True,
+        stdout=subprocess.PIPE,
+        stderr=subprocess.PIPE,
         text=True,
-        timeout=300,
-        check=False,
     )
 
 
@@ -70,17 +69,21 @@ def cli_run(tmp_path_factory: pytest.TempPathFactory) -> dict[str, Any]:
         f'"{MARK}-j4"\n',
         encoding="utf-8",
     )
-    runs = {
-        "csv": _run_cli(
+    started = {
+        "csv": _start_cli(
             str(src), "--scheme", "colorectal", "-o", str(work / "labels.csv"),
             "--evidence", str(work / "evidence.jsonl"), "--redact-evidence",
             "--time-budget", "0.5", "--chunk-rows", "3",
         ),
-        "jsonl": _run_cli(
+        "jsonl": _start_cli(
             str(jsonl), "--scheme", "colorectal", "-o", str(work / "labels-j.csv"),
             "--evidence", str(work / "evidence-j.parquet"), "--redact-evidence",
         ),
     }  # fmt: skip
+    runs = {}
+    for name, proc in started.items():  # both run at once
+        out, err = proc.communicate(timeout=300)
+        runs[name] = subprocess.CompletedProcess(proc.args, proc.returncode, out, err)
     return {"work": work, "runs": runs}
 
 
@@ -159,13 +162,15 @@ def test_exception_messages_are_not_copied(
 
 
 @pytest.mark.parametrize("suffix", [".jsonl", ".parquet"])
-def test_unredacted_evidence_is_marked(tmp_path: Path, suffix: str) -> None:
+def test_unredacted_evidence_is_marked(tmp_path: Path, suffix: str, colorectal: Labeler) -> None:
     src = tmp_path / "in.csv"
     pd.DataFrame({"case_id": ["M1"], "text": ["DIAGNOSIS: Rectum: adenocarcinoma."]}).to_csv(
         src, index=False
     )
     ev = tmp_path / f"evidence{suffix}"
-    label_file(src, tmp_path / "out.csv", LabelOptions("colorectal"), evidence_path=ev)
+    label_file(
+        src, tmp_path / "out.csv", LabelOptions("colorectal"), evidence_path=ev, labeler=colorectal
+    )
     notice = notice_path(ev)
     assert notice.read_text(encoding="utf-8").startswith(f"{ev.name}: {EVIDENCE_PHI_NOTICE}")
     assert "protected health information" in EVIDENCE_PHI_NOTICE

@@ -94,9 +94,9 @@ SCRIPT = textwrap.dedent(
         for t in texts:
             for m in p.finditer(t):
                 assert m.end() >= m.start()
-    # polynomial blow-ups need length: the whole pipeline over 100,000 characters of
+    # polynomial blow-ups need length: the whole pipeline over 60,000 characters of
     # each unit, and of runs that end a line after a header, a part label or a trigger
-    n = 100_000
+    n = 60_000
     big = [repeat(u, n) for u in UNITS[::2]] + [repeat(mixed, n)]
     for head in ("GROSS", "DIAGNOSIS:", "A.", "Part 1:", "Comment", "no", "(", "IM"):
         for run in (" ", "\t", " \t", "-", "."):
@@ -147,8 +147,8 @@ def test_header_then_white_space_to_line_end() -> None:
     # 200,000 blanks after "GROSS": quadratic takes hours, linear a few milliseconds
     try:
         proc = subprocess.run(
-            [sys.executable, "-c", HEADER_RUN], capture_output=True, text=True, timeout=8
+            [sys.executable, "-c", HEADER_RUN], capture_output=True, text=True, timeout=5
         )
     except subprocess.TimeoutExpired:
-        pytest.fail("find_sections did not finish in 8 s")
+        pytest.fail("find_sections did not finish in 5 s")
     assert proc.returncode == 0 and proc.stdout.strip() == "ok", proc.stderr[-2000:]

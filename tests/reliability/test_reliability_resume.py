@@ -32,9 +32,9 @@ from pathsieve.runner import LabelOptions, label_file
 CHUNK = 4
 
 
-@pytest.fixture(scope="module")
-def labeler() -> Labeler:
-    return Labeler("colorectal")
+@pytest.fixture
+def labeler(colorectal: Labeler) -> Labeler:
+    return colorectal
 
 
 @pytest.fixture(scope="module")
