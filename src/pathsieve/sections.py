@@ -95,7 +95,8 @@ _TAIL_NO_NUM = re.compile(
 )
 _DECOR_END = re.compile(r"[ \t*=#~_>•·:;.!'\-]{0,40}$")
 _SPACES = re.compile(r"[ \t]*")
-_COLUMN_GAP = re.compile(r"(?:[ \t]{2,}|\t)[ \t]*(?=\S)")
+# possessive: a run of blanks that ends the line must not be retried from every start
+_COLUMN_GAP = re.compile(r"(?=[ \t]{2}|\t)[ \t]++(?=\S)")
 _GENERIC_KEY = re.compile(
     _KEY_LEAD + r"[A-Za-z][A-Za-z0-9 /&,'+%\-]{0,50}" + _PARENS + r"[ \t]{0,8}:[ \t]{0,8}\S"
 )

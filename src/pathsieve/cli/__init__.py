@@ -64,3 +64,10 @@ def main(argv: Sequence[str] | None = None) -> int:
         return 130
     except BrokenPipeError:
         return 0
+    except Exception as exc:  # a traceback could quote report text: name the failure only
+        print(
+            f"pathsieve: internal error: {type(exc).__name__}; please report it with the command "
+            "line (not the data)",
+            file=sys.stderr,
+        )
+        return 70
