@@ -26,6 +26,7 @@ from pydantic import BaseModel, ConfigDict, Field, ValidationError, model_valida
 from .errors import ConfigError, SchemeError
 from .ontology import Ontology, load_ontology
 from .records import CERTAINTY_SCORE
+from .values import VALUE_KEYS
 from .vocab import file_digest, schemes_dir
 
 __all__ = [
@@ -38,24 +39,8 @@ __all__ = [
     "load_scheme",
 ]
 
-#: Value labels pathsieve can read (the contract of LABELS.md).
-KNOWN_VALUES: tuple[str, ...] = (
-    "gleason_score",
-    "grade_group",
-    "marsh_grade",
-    "nottingham_grade",
-    "er_status",
-    "pr_status",
-    "her2_status",
-    "pt",
-    "pn",
-    "pm",
-    "lymph_nodes_positive",
-    "lymph_nodes_examined",
-    "margin_status",
-    "tumor_size_mm",
-    "lymphovascular_invasion",
-)
+#: Value labels pathsieve can read (the contract of LABELS.md): what the readers emit.
+KNOWN_VALUES: tuple[str, ...] = VALUE_KEYS
 
 
 class _LabelModel(BaseModel):
