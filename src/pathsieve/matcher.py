@@ -53,6 +53,7 @@ then the deeper concept in the is_a hierarchy.
 from __future__ import annotations
 
 import re
+from bisect import bisect_left, bisect_right
 from collections.abc import Callable, Collection, Sequence
 from dataclasses import dataclass, field
 from functools import lru_cache
@@ -290,6 +291,9 @@ class _Index:
     # a cheap first test before the neighbours are compared
     slot_left: dict[tuple[str, str], tuple[str, ...]] = field(default_factory=dict)
     slot_right: dict[tuple[str, str], tuple[str, ...]] = field(default_factory=dict)
+    # every open word by its first letter and by "-" + its last letter: a word no
+    # open word is within reach of can never fill a slot (tested once per word)
+    slot_words: dict[str, tuple[str, ...]] = field(default_factory=dict)
 
 
 def _build_index(
@@ -480,7 +484,16 @@ def _build_index(
         slots=slots,
         slot_left={k: tuple(sorted(v)) for k, v in slot_left.items()},
         slot_right={k: tuple(sorted(v)) for k, v in slot_right.items()},
+        slot_words=_slot_words(slot_left, slot_right),
     )
+
+
+def _slot_words(*tables: dict[tuple[str, str], set[str]]) -> dict[str, tuple[str, ...]]:
+    by_end: dict[str, set[str]] = {}
+    for table in tables:
+        for (_, end), words in table.items():
+            by_end.setdefault(end, set()).update(words)
+    return {end: tuple(sorted(words)) for end, words in by_end.items()}
 
 
 _INDEX_CACHE: dict[tuple[Any, ...], tuple[Ontology, AbbreviationDictionary, _Index]] = {}
@@ -556,6 +569,8 @@ class ConceptMatcher:
         common = frozenset(common_words) if common_words is not None else _default_common_words()
         self._index = _index_for(ontology, self.abbreviations, common, fuzzy_min_length)
         self._fuzzy_cache: dict[str, tuple[str, float] | None] = {}
+        self._slot_cache: dict[str, bool] = {}
+        self._worth_cache: dict[str, bool | None] = {}
         self._context_cache: dict[
             tuple[str, str, str, bool], tuple[int, str, float, str] | None
         ] = {}
@@ -646,6 +661,7 @@ class ConceptMatcher:
                 for s in _whole_token_starts(text, d.short):
                     e = s + len(d.short)
                     out.append((s - e, 1, -depth.get(cid, 0), s, e, cid, 100.0, note))
+        near = _Near(exact)
         for s, e, senses in hits:
             written = text[s:e]
             if defined and written.casefold() in defined:
@@ -658,7 +674,7 @@ class ConceptMatcher:
                     senses,
                     scheme=self.scheme_name,
                     section=section_at(s) if section_at is not None else None,
-                    neighbours=self._neighbours(text, s, e, exact),
+                    neighbours=self._neighbours(text, s, e, near),
                     cues=idx.sense_cues,
                 )
                 if choice is None:
@@ -679,10 +695,11 @@ class ConceptMatcher:
         depth = self._index.depth
         out: list[_Cand] = []
         cues = self._index.sense_cues
+        near = _Near(exact)
         for s, e, entry in shared:
             written = text[s:e]
-            near = self._neighbours(text, s, e, exact)
-            choice = choose_sense(written, entry.choices, neighbours=near, cues=cues)
+            near_words = self._neighbours(text, s, e, near)
+            choice = choose_sense(written, entry.choices, neighbours=near_words, cues=cues)
             if (choice is None or choice.tied) and self.scheme_name:
                 # nothing nearby decides: let the scheme's name speak for the organ
                 by_scheme = choose_sense(
@@ -747,13 +764,12 @@ class ConceptMatcher:
                 return s.concept_id
         return ""
 
-    def _neighbours(self, text: str, s: int, e: int, exact: list[_Cand]) -> set[str]:
+    def _neighbours(self, text: str, s: int, e: int, near: _Near) -> set[str]:
         lo, hi = max(0, s - 80), min(len(text), e + 80)
         words = set(window_words(text[lo:s] + " " + text[e:hi]))
         concept_words = self._index.concept_words
-        for _, _, _, c_start, c_end, cid, _, _ in exact:
-            if c_end > lo and c_start < hi:
-                words |= concept_words.get(cid, frozenset())
+        for _, _, cid in near.overlapping(lo, hi):
+            words |= concept_words.get(cid, frozenset())
         return words
 
     def _fuzzy(self, norm: NormText, padded: str) -> list[_Cand]:
@@ -763,15 +779,10 @@ class ConceptMatcher:
         in_context = self._slot_corrections(padded, distinct - idx.vocab_words)
         if not unknown and not in_context:
             return []
-        heads, tails = idx.join_heads, idx.join_tails
         corrections: list[_Correction] = []
         for word in unknown:
-            single = len(word) >= self.fuzzy_min_length and not word.isdigit()
-            # a fragment of a split word starts or ends some vocabulary word
-            joinable = (
-                len(word) >= 2 and word.isalpha() and (word[:3] in heads or word[-3:] in tails)
-            )
-            if not joinable and (not single or self._closest(word) is None):
+            single = self._worth_correcting(word)
+            if single is None:
                 continue  # nothing this word could become: skip finding it
             # every word of the padded matching text has a space on each side
             needle = f" {word} "
@@ -793,6 +804,29 @@ class ConceptMatcher:
         kept.sort(key=lambda c: c.start)
         return self._rematch(norm, padded, kept)
 
+    def _worth_correcting(self, word: str) -> bool | None:
+        """None: an unknown word nothing could become; else whether it may stand alone.
+
+        A word of ``fuzzy_min_length`` letters or more (not a number) may be
+        corrected alone; a fragment of a split word starts or ends some vocabulary
+        word.  Cached across reports: the same unknown words recur.
+        """
+        cache = self._worth_cache
+        if word in cache:
+            return cache[word]
+        single = len(word) >= self.fuzzy_min_length and not word.isdigit()
+        idx = self._index
+        joinable = (
+            len(word) >= 2
+            and word.isalpha()
+            and (word[:3] in idx.join_heads or word[-3:] in idx.join_tails)
+        )
+        found = single if joinable or (single and self._closest(word) is not None) else None
+        if len(cache) > 50_000:
+            cache.clear()
+        cache[word] = found
+        return found
+
     def _slot_corrections(self, padded: str, candidates: set[str]) -> list[_Correction]:
         """Misread words inside a multi-word name whose other words are written right.
 
@@ -806,40 +840,67 @@ class ConceptMatcher:
         idx = self._index
         if not idx.slots:
             return []
+        # Most words are no open word's near miss: settle that once per word (cached
+        # across reports) and skip the walk over the text when no word can be one.
+        # The test is implied by the one below, so it changes no answer.
+        open_words = {w for w in candidates if self._slot_plausible(w)}
+        if not open_words:
+            return []
         out: list[_Correction] = []
         by_left, by_right = idx.slot_left, idx.slot_right
-        # One split: an empty token stands for punctuation (a double space), so
-        # a word's neighbours in the list are its neighbours in a name or "".
-        tokens = padded.split(" ")
-        pos = 0
-        last = len(tokens) - 1
-        for j, word in enumerate(tokens):
-            start = pos
-            pos += len(word) + 1
-            if word not in candidates or len(word) < _SLOT_MIN_LENGTH - 1:
-                continue
-            folded = word.translate(_SLOT_DIGITS)
-            if not folded.isalpha():
-                continue
-            # a name needs a word of it right beside the open word, sharing the
-            # open word's first or last letter
-            left = tokens[j - 1] if j > 0 else ""
-            right = tokens[j + 1] if j < last else ""
-            head, tail = folded[0], "-" + folded[-1]
-            near = (
-                *by_left.get((left, head), ()),
-                *by_left.get((left, tail), ()),
-                *by_right.get((right, head), ()),
-                *by_right.get((right, tail), ()),
-            )
-            if not near:
-                continue
-            reach = _slot_reach(folded)
-            if any(Levenshtein.distance(folded, t, score_cutoff=reach) <= reach for t in near):
-                c = self._slot_at(padded, start, start + len(word))
-                if c is not None:
-                    out.append(c)
+        # Every word of the padded text has a space on each side; a double space
+        # stands for punctuation, so an empty neighbour means none in a name.
+        for word in open_words:
+            needle = f" {word} "
+            at = padded.find(needle)
+            while at >= 0:
+                start, end = at + 1, at + 1 + len(word)
+                left = padded[padded.rfind(" ", 0, at) + 1 : at]
+                right_end = padded.find(" ", end + 1)
+                right = padded[end + 1 : right_end] if right_end >= 0 else padded[end + 1 :]
+                at = padded.find(needle, end)
+                folded = word.translate(_SLOT_DIGITS)
+                # a name needs a word of it right beside the open word, sharing the
+                # open word's first or last letter
+                head, tail = folded[0], "-" + folded[-1]
+                near = (
+                    *by_left.get((left, head), ()),
+                    *by_left.get((left, tail), ()),
+                    *by_right.get((right, head), ()),
+                    *by_right.get((right, tail), ()),
+                )
+                if not near:
+                    continue
+                reach = _slot_reach(folded)
+                if any(Levenshtein.distance(folded, t, score_cutoff=reach) <= reach for t in near):
+                    c = self._slot_at(padded, start, end)
+                    if c is not None:
+                        out.append(c)
+        out.sort(key=lambda c: c.start)
         return out
+
+    def _slot_plausible(self, word: str) -> bool:
+        """Whether ``word`` is within reach of some open word sharing its first or last letter."""
+        cache = self._slot_cache
+        hit = cache.get(word)
+        if hit is None:
+            hit = False
+            if len(word) >= _SLOT_MIN_LENGTH - 1:
+                folded = word.translate(_SLOT_DIGITS)
+                if folded.isalpha():
+                    reach = _slot_reach(folded)
+                    by_end = self._index.slot_words
+                    near = by_end.get(folded[0], ()) + by_end.get("-" + folded[-1], ())
+                    hit = near != () and (
+                        process.extractOne(
+                            folded, near, scorer=Levenshtein.distance, score_cutoff=reach
+                        )
+                        is not None
+                    )
+            if len(cache) > 50_000:
+                cache.clear()
+            cache[word] = hit
+        return hit
 
     def _slot_at(self, padded: str, s: int, e: int) -> _Correction | None:
         """The best name the word at ``padded[s:e]`` completes with its neighbours."""
@@ -1016,15 +1077,18 @@ class ConceptMatcher:
         pieces.append(padded[pos:])
         corrected = "".join(pieces)
 
+        # corrections do not overlap, so their spans are sorted by start and by end
+        span_starts = [a for a, _, _ in spans]
+        span_ends = [b for _, b, _ in spans]
+
         def to_padded(i: int, as_end: bool) -> int:
-            shift = 0
-            for a, b, c in spans:
-                if i < a or (as_end and i == a):
-                    break
-                if i < b or (as_end and i == b):
-                    return c.end if as_end else c.start
-                shift = c.end - b
-            return i + shift
+            k = bisect_left(span_starts, i) if as_end else bisect_right(span_starts, i)
+            if k == 0:
+                return i
+            _, b, c = spans[k - 1]
+            if i < b or (as_end and i == b):
+                return c.end if as_end else c.start
+            return i + c.end - b
 
         out: list[_Cand] = []
         for end, (klen, eid) in idx.automaton.iter(corrected):
@@ -1032,8 +1096,9 @@ class ConceptMatcher:
             if entry.senses:
                 continue
             cs, ce = end - klen + 2, end  # the key inside the padding
-            used = [c for a, b, c in spans if a < ce and b > cs]
-            if not used or any(cs > a or ce < b for a, b, c in spans if a < ce and b > cs):
+            touched = spans[bisect_right(span_ends, cs) : bisect_left(span_starts, ce)]
+            used = [c for _, _, c in touched]
+            if not used or any(cs > a or ce < b for a, b, _ in touched):
                 # a correction is used whole or not at all: "malignancy" inside
                 # the replacement "no malignancy" is no reading of the words
                 continue
@@ -1078,6 +1143,27 @@ class ConceptMatcher:
         if len(w) < self.fuzzy_min_length or " " in w:
             return None
         return self._closest(w)
+
+
+class _Near:
+    """Exact candidates by start, for "which mentions overlap [lo, hi)" in log time.
+
+    A report of megabytes has tens of thousands of mentions and short forms; a scan
+    of every mention per short form made such a report quadratic.
+    """
+
+    __slots__ = ("_cands", "_longest", "_starts")
+
+    def __init__(self, exact: Sequence[_Cand]) -> None:
+        self._cands = sorted((c[3], c[4], c[5]) for c in exact)
+        self._starts = [c[0] for c in self._cands]
+        self._longest = max((e - s for s, e, _ in self._cands), default=0)
+
+    def overlapping(self, lo: int, hi: int) -> list[tuple[int, int, str]]:
+        """Candidates with ``end > lo`` and ``start < hi``."""
+        first = bisect_left(self._starts, lo - self._longest)
+        last = bisect_left(self._starts, hi)
+        return [c for c in self._cands[first:last] if c[1] > lo]
 
 
 def _slot_reach(word: str) -> int:

@@ -416,3 +416,23 @@ def test_common_words_file(tmp_path: Path) -> None:
     with pytest.raises(VocabError) as err:
         load_common_words(bad)
     assert err.value.line == 3
+
+
+# --------------------------------------------------------------------------- neighbour look-up
+
+
+@settings(max_examples=200, deadline=None)
+@given(
+    st.lists(st.tuples(st.integers(0, 400), st.integers(1, 40)), max_size=60),
+    st.integers(0, 450),
+    st.integers(0, 120),
+)
+def test_neighbour_lookup_equals_a_scan(spans: list[tuple[int, int]], lo: int, width: int) -> None:
+    # The bisect look-up that keeps huge reports linear must find exactly what a
+    # scan of every candidate finds (overlap: end > lo and start < hi).
+    from pathsieve.matcher import _Near
+
+    cands = [(s - (s + n), 0, 0, s, s + n, f"C{i}", 100.0, "") for i, (s, n) in enumerate(spans)]
+    hi = lo + width
+    scan = sorted((c[3], c[4], c[5]) for c in cands if c[4] > lo and c[3] < hi)
+    assert sorted(_Near(cands).overlapping(lo, hi)) == scan
