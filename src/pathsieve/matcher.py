@@ -308,6 +308,7 @@ def _build_index(
     line = {cid: t.line for cid, t in onto.terms.items()}
     cs: dict[str, list[Sense]] = {}
     folded: dict[str, list[Sense]] = {}
+    punctuated: dict[str, str] = {}  # key spelled with its punctuation -> plain key
 
     def offer(key: str, cid: str, rank: int) -> None:
         if not key:
@@ -354,18 +355,29 @@ def _build_index(
             continue  # broad synonyms
         key = matching_key(text)
         offer(key, cid, _KIND_RANK[kind])
+        # Punctuation inside a wording ("Adenocarcinoma, signet ring cell type",
+        # "H. pylori") is a double space in the searched text: that spelling is a
+        # key too, for the same entry as the plain one.
+        spelled = matching_text(normalize(text).text).strip()
+        if spelled != key and key:
+            punctuated.setdefault(spelled, key)
         for v in _variants(text, key):
             offer(v, cid, _KIND_RANK["variant"])
 
     automaton = ahocorasick.Automaton()
     entries: list[_Entry] = []
+    entry_of: dict[str, int] = {}
     for key, (rank, cid) in best.items():
         choices: tuple[Sense, ...] = ()
         if key in ambiguous:
             ids = sorted(ambiguous[key] | {cid}, key=lambda c: (line.get(c, 0), c))
             choices = tuple(Sense(key, onto.terms[c].label, c, ("*",)) for c in ids)
+        entry_of[key] = len(entries)
         automaton.add_word(f" {key} ", (len(key) + 2, len(entries)))
         entries.append(_Entry(cid, rank, (), -depth.get(cid, 0), choices))
+    for spelled, key in punctuated.items():
+        if spelled not in best and key in entry_of:
+            automaton.add_word(f" {spelled} ", (len(spelled) + 2, entry_of[key]))
     for key, senses in folded.items():
         if key in best:
             continue  # a name or synonym wins over a short form spelled the same

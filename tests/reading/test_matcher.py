@@ -436,3 +436,27 @@ def test_neighbour_lookup_equals_a_scan(spans: list[tuple[int, int]], lo: int, w
     hi = lo + width
     scan = sorted((c[3], c[4], c[5]) for c in cands if c[4] > lo and c[3] < hi)
     assert sorted(_Near(cands).overlapping(lo, hi)) == scan
+
+
+@pytest.mark.parametrize(
+    ("text", "concept", "written"),
+    [
+        # punctuation inside a wording is a double space in the searched text
+        ("No H. pylori identified.", "Helicobacter pylori infection", "H. pylori"),
+        (
+            "Adenocarcinoma, signet ring cell type.",
+            "signet ring cell carcinoma",
+            "Adenocarcinoma, signet ring cell type",
+        ),
+        ("Carcinoma, NOS, in the biopsy.", "carcinoma, not otherwise specified", "Carcinoma, NOS"),
+    ],
+)
+def test_punctuation_inside_a_wording(text: str, concept: str, written: str) -> None:
+    from pathsieve.vocab import lexicon_path, ontology_path
+
+    matcher = ConceptMatcher(
+        load_ontology(ontology_path()),
+        AbbreviationDictionary.load(lexicon_path("abbreviations.tsv")),
+    )
+    found = [(m.label, m.text) for m in matcher.find(text)]
+    assert (concept, written) in found
