@@ -26,7 +26,7 @@ from typing import Any, Protocol
 from ..errors import InputError
 from ..records import Value
 from .breast import HER2Reader, NottinghamReader, ReceptorReader
-from .common import Region, Report
+from .common import Region, Report, present
 from .gleason import GleasonReader, grade_group, grade_group_from_total
 from .lexicon import (
     VALUE_LEXICON_FILE,
@@ -119,6 +119,12 @@ def readers(lexicon: ValueLexicon | None = None) -> tuple[_Reader, ...]:
     return _DEFAULT[0]  # type: ignore[no-any-return]
 
 
+@lru_cache(maxsize=64)
+def _plan(rs: tuple[_Reader, ...]) -> tuple[tuple[_Reader, frozenset[int] | None], ...]:
+    """Each reader with its gate: the anchors one of which it needs to read anything."""
+    return tuple((r, getattr(r, "gate", None)) for r in rs)
+
+
 def _check_region(spec: object, n: int, i: int) -> RegionSpec:
     if not isinstance(spec, (tuple, list)) or len(spec) != 4:
         raise InputError(f"region {i} must be (start, end, section_kind, part_label), got {spec!r}")
@@ -154,12 +160,16 @@ def extract_values(
     if keys is not None:
         wanted = frozenset(keys)
         rs = tuple(r for r in rs if not wanted.isdisjoint(r.keys))
+    plan = _plan(rs)
     for i, spec in enumerate(regions):
         start, end, section, part = _check_region(spec, n, i)
         if start == end:
             continue
         region = Region.of(report, start, end, section, part)
-        for reader in rs:
+        found = present(region)
+        for reader, needs in plan:
+            if needs is not None and needs.isdisjoint(found):
+                continue  # none of the words it starts from: it would read nothing
             for v in reader.read(region):
                 key = (v.key, v.start, v.end, repr(v.value))
                 if key not in seen:  # overlapping regions must not double a value

@@ -40,6 +40,7 @@ from .common import (
     Region,
     Rx,
     alternation,
+    gate,
     keep_non_overlapping,
     near_before,
 )
@@ -140,8 +141,20 @@ class NottinghamReader:
         self._at_grade_words = Anchors(grade_words)
         self._at_generic = Anchors(lex.phrases(fam, "generic_headings"))
         self._at_tubules = Anchors(lex.phrases(fam, "tubules"))
+        #: every form starts at one of these (see :func:`~.common.gate`)
+        self.gate = gate(
+            self._at_names, self._at_grade_words, self._at_generic, self._at_bare, self._at_tubules
+        )
 
     def read(self, region: Region) -> list[Value]:
+        if not (
+            self._at_names.positions(region)
+            or self._at_grade_words.positions(region)
+            or self._at_generic.positions(region)
+            or self._at_bare.positions(region)
+            or self._at_tubules.positions(region)
+        ):
+            return []  # every form starts at one of these words
         heads: list[Found] = []
         for rx, at in zip(self._headed, (self._at_names, self._at_grade_words)):
             for m in rx.match_at(region, at.positions(region)):
@@ -439,6 +452,8 @@ class ReceptorReader:
             ),
         )
         self._at_status = Anchors((*pos, *neg, *low))
+        #: every form starts at a name (see :func:`~.common.gate`)
+        self.gate = gate(self._at_names)
 
     def read(self, region: Region) -> list[Value]:
         names = self._at_names.positions(region)
@@ -641,6 +656,8 @@ class HER2Reader:
         )
         self._win = _Windowed(stop, lex.phrases(fam, "detail_lines"), stop_at_semicolon=False)
         self._at_names = Anchors(lex.phrases(fam, "names"), lex.phrases(fam, "name_abbreviations"))
+        #: every form starts at a name (see :func:`~.common.gate`)
+        self.gate = gate(self._at_names)
 
     def read(self, region: Region) -> list[Value]:
         positions = self._at_names.positions(region)

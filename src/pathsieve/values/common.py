@@ -3,8 +3,10 @@
 Regex *structure* lives in the reader modules; the words come from the value
 lexicon and are turned into patterns here.
 
-Speed: one Aho–Corasick pass over a region finds where the leading words of
-every pattern occur (:class:`Anchors`), and each pattern is tried only there
+Speed: one Aho–Corasick pass over the report finds where the leading words of
+every pattern occur, shared out to its regions (:class:`Anchors`); a reader
+whose words are absent from a region is not run there (:func:`gate`); and each
+pattern is tried only where its words occur
 (:meth:`Rx.match_at`); patterns that start with a number are tried only at
 numbers shortly before the word they need (:meth:`Numbers.positions_near`).
 Patterns run on the lower-cased region without ``re.IGNORECASE`` (which is
@@ -45,10 +47,12 @@ __all__ = [
     "Rx",
     "Sizes",
     "alternation",
+    "gate",
     "keep_non_overlapping",
     "near",
     "near_before",
     "phrase_pattern",
+    "present",
     "windows",
 ]
 
@@ -183,22 +187,32 @@ class Rx:
 
     def match_at(
         self, region: Region, positions: Iterable[int], endpos: int | None = None
-    ) -> Iterator[re.Match[str]]:
+    ) -> list[re.Match[str]]:
         """Matches starting exactly at the given sorted positions, never overlapping."""
+        if not positions:
+            return _NO_MATCHES  # the common case: the pattern's words are not here
         low = region.low
         end = len(low) if endpos is None else endpos
         last = -1
         scan = self.scan.match
+        twin = self.twin
+        out: list[re.Match[str]] = []
         for p in positions:
             if p < last or p >= end:
                 continue
             m = scan(low, p, end)
             if m is None:
                 continue
-            c = self._check(m, region)
-            if c is not None:
-                last = c.end()
-                yield c
+            if twin is not None:
+                m = twin.fullmatch(region.body, m.start(), m.end())
+                if m is None:
+                    continue
+            last = m.end()
+            out.append(m)
+        return out
+
+
+_NO_MATCHES: list[re.Match[str]] = []
 
 
 def _stems(phrases: Iterable[str]) -> tuple[str, ...]:
@@ -221,19 +235,29 @@ _SHORT_STEM = 3
 
 class _StemIndex:
     """The stems of all live anchors: one Aho–Corasick automaton over the lower-cased
-    text, and ``str.find`` for the few abbreviations matched as written.  One pass
-    over a region gives every anchor its positions."""
+    text, and ``str.find`` for the few abbreviations matched as written.
+
+    One pass over the whole report finds every stem (:meth:`report_hits`); a
+    region then takes, for each anchor it asks about, the hits that lie inside
+    it (:meth:`positions`), with the whole-word test of a short stem made
+    against the region's own ends -- exactly what a pass over the region alone
+    would find, for a fraction of the cost (a report has some eight regions and
+    most anchors occur in none of them).
+    """
 
     def __init__(self) -> None:
         # (side, stem) -> ids of the anchors that use it; side 0 = lower-cased, 1 = as written
         self._owners: dict[tuple[int, str], list[int]] = {}
-        self._automata: tuple[Any, list[tuple[str, int, bool, tuple[int, ...]]]] | None = None
+        self._automata: _Automata | None = None
+        #: bumped whenever the anchors change, so that a report's hits are not reused
+        self.version = 0
 
     def add(self, anchor_id: int, low_keys: Iterable[str], body_keys: Iterable[str]) -> None:
         for side, keys in ((0, low_keys), (1, body_keys)):
             for k in keys:
                 self._owners.setdefault((side, k), []).append(anchor_id)
         self._automata = None
+        self.version += 1
 
     def remove(self, anchor_id: int) -> None:
         """Forget a collected anchor (its id may be reused by a new object)."""
@@ -244,42 +268,125 @@ class _StemIndex:
             else:
                 del self._owners[key]
         self._automata = None
+        self.version += 1
 
-    def _build(self) -> tuple[Any, list[tuple[str, int, bool, tuple[int, ...]]]]:
+    def _build(self) -> _Automata:
         auto = ahocorasick.Automaton()
-        # abbreviations are few and rare in lower case: str.find is quicker than a pass
-        as_written: list[tuple[str, int, bool, tuple[int, ...]]] = []
+        # Abbreviations are few and rare as written: a regex of them all finds where
+        # one may start (it skips on their first letters), and each is checked there.
+        as_written: dict[str, list[tuple[str, tuple[int, bool, tuple[int, ...]]]]] = {}
         for (side, key), owners in self._owners.items():
             short = side == 0 and len(key) < _SHORT_STEM and key.isalnum()
             if side == 0:
                 auto.add_word(key, (len(key), short, tuple(owners)))
-            else:
-                as_written.append((key, len(key), False, tuple(owners)))
+            elif key:
+                as_written.setdefault(key[0], []).append((key, (len(key), False, tuple(owners))))
         if len(auto):
             auto.make_automaton()
-        return (auto if len(auto) else None), as_written
+        starts = (
+            re.compile("|".join(re.escape(k) for keys in as_written.values() for k, _ in keys))
+            if as_written
+            else None
+        )
+        return (auto if len(auto) else None), starts, as_written
 
-    def positions(self, region: Region) -> dict[int, list[int]]:
-        """Anchor id -> sorted start positions, for every anchor with a stem in the region."""
-        cached: dict[int, list[int]] | None = region.cache.get("anchors")
-        if cached is not None:
-            return cached
+    def _hits(self, low: str, body: str) -> list[tuple[int, tuple[int, bool, tuple[int, ...]]]]:
+        """(last index, (size, short, owners)) of every stem occurrence."""
         if self._automata is None:
             self._automata = self._build()
-        res: dict[int, list[int]] = {}
-        low = region.low
-        n = len(low)
-        auto, as_written = self._automata
+        auto, starts, as_written = self._automata
         hits: list[tuple[int, tuple[int, bool, tuple[int, ...]]]] = []
         if auto is not None:
             hits.extend(auto.iter(low))
-        body = region.body
-        for key, size, short, owners in as_written:
-            i = body.find(key)
-            while i >= 0:
-                hits.append((i + size - 1, (size, short, owners)))
-                i = body.find(key, i + 1)
-        for end, (size, short, owners) in hits:
+        if starts is not None:
+            # every start of every abbreviation, overlapping ones included ("ER" in "HER")
+            search = starts.search
+            m = search(body)
+            while m is not None:
+                i = m.start()
+                for key, info in as_written[body[i]]:
+                    if body.startswith(key, i):
+                        hits.append((i + info[0] - 1, info))
+                m = search(body, i + 1)
+        return hits
+
+    def report_hits(self, report: Report) -> _ReportHits:
+        """Every stem hit in the whole report, as (start, last index, owners) sorted
+        lists with their starts: the hits that count in any region holding them, and
+        the short stems inside a longer word ("no" in "node"), which count only
+        where a region's end cuts the word."""
+        memo = report.hits
+        if memo is not None and memo[0] == self.version:
+            return memo[1]  # type: ignore[no-any-return]
+        low = report.low
+        n = len(low)
+        items: list[tuple[int, int, tuple[int, ...]]] = []
+        inner: list[tuple[int, int, tuple[int, ...]]] = []
+        for end, (size, short, owners) in self._hits(low, report.text):
+            start = end - size + 1
+            if short and (
+                (start > 0 and low[start - 1].isalnum()) or (end + 1 < n and low[end + 1].isalnum())
+            ):
+                inner.append((start, end, owners))
+            else:
+                items.append((start, end, owners))
+        items.sort()
+        inner.sort()
+        out: _ReportHits = ([it[0] for it in items], items, [it[0] for it in inner], inner)
+        report.hits = (self.version, out)
+        return out
+
+    def positions(self, region: Region) -> dict[int, list[int]]:
+        """Anchor id -> sorted start positions, for every anchor with a stem in the region."""
+        if region.anchors is not None:
+            return region.anchors
+        if not region.report.whole:
+            region.anchors = self._region_positions(region)
+            return region.anchors
+        starts, items, inner_starts, inner = self.report_hits(region.report)
+        rs, re_ = region.start, region.end
+        lo = bisect_left(starts, rs)
+        hi = bisect_left(starts, re_, lo)
+        res: dict[int, list[int]] = {}
+        for s, e, owners in items[lo:hi]:
+            if e >= re_:
+                continue
+            p = s - rs
+            for a in owners:
+                lst = res.get(a)
+                if lst is None:
+                    res[a] = [p]
+                elif lst[-1] != p:
+                    lst.append(p)
+        lo = bisect_left(inner_starts, rs)
+        hi = bisect_left(inner_starts, re_, lo)
+        if lo < hi:
+            # a short stem counts as a whole word only ("no" but not "node"), judged
+            # within the region as a pass over the region alone would: only where the
+            # region's start or end cuts the word
+            low = region.report.low
+            extra = False
+            for s, e, owners in inner[lo:hi]:
+                if e >= re_ or (s > rs and low[s - 1].isalnum()):
+                    continue
+                if e + 1 < re_ and low[e + 1].isalnum():
+                    continue
+                extra = True
+                for a in owners:
+                    res.setdefault(a, []).append(s - rs)
+            if extra:
+                for a, lst in res.items():
+                    res[a] = sorted(set(lst))
+        region.anchors = res
+        return res
+
+    def _region_positions(self, region: Region) -> dict[int, list[int]]:
+        """Anchor id -> sorted start positions, from a pass over the region alone (for a
+        report whose lower-cased regions are not slices of its lower-cased text)."""
+        res: dict[int, list[int]] = {}
+        low = region.low
+        n = len(low)
+        for end, (size, short, owners) in self._hits(low, region.body):
             start = end - size + 1
             # a short stem counts as a whole word only ("no" but not "node")
             if short and (
@@ -294,9 +401,25 @@ class _StemIndex:
                     lst.append(start)
         for a, lst in res.items():
             res[a] = sorted(set(lst))
-        region.cache["anchors"] = res
         return res
 
+
+#: the lower-case automaton, a regex finding where an abbreviation may start, and the
+#: abbreviations by first character with (size, short, owners)
+_Automata = tuple[
+    Any,
+    "re.Pattern[str] | None",
+    dict[str, list[tuple[str, tuple[int, bool, tuple[int, ...]]]]],
+]
+
+#: a report's stem hits, (start, last index, owners) sorted with their starts: those
+#: that count wherever they are, then short stems inside a longer word
+_ReportHits = tuple[
+    list[int],
+    list[tuple[int, int, tuple[int, ...]]],
+    list[int],
+    list[tuple[int, int, tuple[int, ...]]],
+]
 
 _INDEX = _StemIndex()
 _NONE: list[int] = []
@@ -305,7 +428,7 @@ _NONE: list[int] = []
 class Anchors:
     """Where a pattern may start: each occurrence of its leading words.
 
-    The stems of all anchors are found in one Aho–Corasick pass per region, and a
+    The stems of all anchors are found in one Aho–Corasick pass per report, and a
     pattern is tried only where one of its stems occurs: much faster than scanning
     the region with the pattern itself.
     """
@@ -317,12 +440,30 @@ class Anchors:
         _INDEX.add(self._key, _stems(p.lower() for p in phrases), _stems(abbreviations))
         weakref.finalize(self, _INDEX.remove, self._key)
 
+    @property
+    def key(self) -> int:
+        """This anchor's key in :func:`present`."""
+        return self._key
+
     def positions(self, region: Region) -> list[int]:
         # called some twenty times per region: read the region's memo directly
-        found = region.cache.get("anchors")
+        found = region.anchors
         if found is None:
             found = _INDEX.positions(region)
-        return found.get(self._key, _NONE)  # type: ignore[no-any-return]
+        return found.get(self._key, _NONE)
+
+
+def present(region: Region) -> dict[int, list[int]]:
+    """The anchors found in a region: key -> sorted starts (never empty)."""
+    found = region.anchors
+    if found is None:
+        found = _INDEX.positions(region)
+    return found
+
+
+def gate(*anchors: Anchors) -> frozenset[int]:
+    """A reader's gate: it reads nothing in a region holding none of these anchors."""
+    return frozenset(a.key for a in anchors)
 
 
 def near_before(positions: Sequence[int], anchors: Sequence[int], reach: int) -> list[int]:
@@ -393,13 +534,21 @@ def _lower_same_length(text: str) -> str:
 
 
 class Report:
-    """The whole report text with a lazily lower-cased copy (for context checks)."""
+    """The whole report text with a lazily lower-cased copy (for context checks) and
+    the anchors' stem hits over it (found once, shared by every region)."""
 
-    __slots__ = ("_low", "text")
+    __slots__ = ("_low", "cache", "hits", "text", "whole")
 
     def __init__(self, text: str) -> None:
         self.text = text
         self._low: str | None = None
+        #: (index version, hits) once the stems have been looked for
+        self.hits: tuple[int, Any] | None = None
+        #: per-report memo of readers' whole-text scans
+        self.cache: dict[Any, Any] = {}
+        #: Whether each region's lower-cased copy is the slice of :attr:`low`: true
+        #: unless a capital sigma is lower-cased by its context (final or not).
+        self.whole = "\u03a3" not in text
 
     @property
     def low(self) -> str:
@@ -423,13 +572,17 @@ class Region:
     part: str
     body: str
     low: str
-    #: per-region memo of anchor positions and counts (shared by the readers)
+    #: per-region memo of counts and other shared work (shared by the readers)
     cache: dict[Any, Any] = field(default_factory=dict)
+    #: anchor id -> sorted starts, for the anchors found in the region (once asked)
+    anchors: dict[int, list[int]] | None = None
 
     @classmethod
     def of(cls, report: Report, start: int, end: int, section: str, part: str) -> Region:
         body = report.text[start:end]
-        return cls(report, start, end, section, part, body, _lower_same_length(body))
+        # one lower-casing per report: a region's is the slice of the report's
+        low = report.low[start:end] if report.whole else _lower_same_length(body)
+        return cls(report, start, end, section, part, body, low)
 
     def value(
         self,
@@ -499,6 +652,8 @@ class Numbers:
     ) -> list[int]:
         """Where a count may start (digits or number words) within reach of an anchor:
         only ``before`` characters before an anchor up to ``after`` characters after it."""
+        if not anchors:
+            return _NONE
         key = ("counts", id(self), tuple(anchors), before, after)
         cached = region.cache.get(key)
         if cached is not None:

@@ -24,6 +24,7 @@ from .common import (
     Region,
     Rx,
     alternation,
+    gate,
     keep_non_overlapping,
 )
 from .lexicon import ValueLexicon
@@ -132,9 +133,17 @@ class GleasonReader:
             (*lex.phrases("grade_group", "names"), *lex.phrases("grade_group", "ambiguous_names")),
             lex.phrases("grade_group", "name_abbreviations"),
         )
+        #: every form starts at one of these (see :func:`~.common.gate`)
+        self.gate = gate(self._at_primary, self._at_name, self._at_gg)
 
     # -----------------------------------------------------------------------------
     def read(self, region: Region) -> list[Value]:
+        if not (
+            self._at_primary.positions(region)
+            or self._at_name.positions(region)
+            or self._at_gg.positions(region)
+        ):
+            return []  # every form starts at one of these words
         scores = self._scores(region)
         out: list[Value] = []
         for f in scores:

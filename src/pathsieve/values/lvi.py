@@ -21,7 +21,7 @@ from __future__ import annotations
 import re
 
 from ..records import Value
-from .common import Anchors, Found, Region, Rx, alternation, near_before
+from .common import Anchors, Found, Region, Rx, alternation, gate, near_before
 from .lexicon import ValueLexicon
 
 __all__ = ["LVIReader"]
@@ -66,6 +66,8 @@ class LVIReader:
         )
         self._at_absent = Anchors(lex.phrases(fam, "absent_prefixes"))
         self._at_present = Anchors(lex.phrases(fam, "present_prefixes"))
+        #: nothing is read without a name (see :func:`~.common.gate`)
+        self.gate = gate(self._at_names)
 
     def read(self, region: Region) -> list[Value]:
         names = self._at_names.positions(region)

@@ -32,6 +32,7 @@ from .common import (
     Rx,
     Sizes,
     alternation,
+    gate,
     keep_non_overlapping,
     near_before,
 )
@@ -122,6 +123,8 @@ class MarginReader:
             (*lex.phrases(fam, "negative_adjectives"), *lex.phrases(fam, "positive_adjectives"))
         )
         self._at_closest = Anchors(lex.phrases(fam, "closest"))
+        #: nothing is read without one of these (see :func:`~.common.gate`)
+        self.gate = gate(self._at_names, self._at_involvement)
 
     # -----------------------------------------------------------------------------
     def read(self, region: Region) -> list[Value]:

@@ -15,7 +15,7 @@ subtype on a type other than 3 ("Marsh 2a") and ranges ("Marsh 3a-3b").
 from __future__ import annotations
 
 from ..records import Value
-from .common import Anchors, Numbers, Region, Rx, alternation
+from .common import Anchors, Numbers, Region, Rx, alternation, gate
 from .lexicon import ValueLexicon
 
 __all__ = ["MARSH_CATEGORIES", "MarshReader"]
@@ -45,6 +45,8 @@ class MarshReader:
             rf"(?P<range>{_S}(?:-|–|/|to|or){_S}(?:(?:[0-4]|iv|iii|ii|i)[abc]?|[abc])(?![^\W_]))?"
         )
         self._at = Anchors(lex.phrases("marsh", "names"))
+        #: every form starts at one of these (see :func:`~.common.gate`)
+        self.gate = gate(self._at)
 
     def read(self, region: Region) -> list[Value]:
         out: list[Value] = []

@@ -28,6 +28,7 @@ from .common import (
     Rx,
     Sizes,
     alternation,
+    gate,
     keep_non_overlapping,
 )
 from .lexicon import ValueLexicon
@@ -86,19 +87,25 @@ class SizeReader:
         self._at_headings = Anchors(lex.phrases(fam, "headings"))
         self._at_fields = Anchors(lex.phrases(fam, "field_headings"))
         self._at_nouns = Anchors(lex.phrases(fam, "tumor_nouns"))
+        #: every form starts at, or shortly before, one of these (see :func:`~.common.gate`)
+        self.gate = gate(self._at_headings, self._at_fields, self._at_nouns)
 
     def read(self, region: Region) -> list[Value]:
+        headings = self._at_headings.positions(region)
+        fields = self._at_fields.positions(region)
+        nouns = self._at_nouns.positions(region)
+        if not (headings or fields or nouns):
+            return []  # every form starts at, or shortly before, one of these words
         body = region.body
         found: list[Found] = []
-        for m in self._heading.match_at(region, self._at_headings.positions(region)):
+        for m in self._heading.match_at(region, headings):
             self._add(found, m, region)
-        for m in self._field.match_at(region, self._at_fields.positions(region)):
+        for m in self._field.match_at(region, fields):
             # "Lymph node ... greatest dimension: 1.2 cm" is not the tumour
             prev_line = body.rfind("\n", 0, max(0, body.rfind("\n", 0, m.start())))
             if self._field_exclusion.search(region, max(0, prev_line), m.start()) is not None:
                 continue
             self._add(found, m, region)
-        nouns = self._at_nouns.positions(region)
         for m in self._noun_first.match_at(region, nouns):
             if self._preceding.search(region, max(0, m.start() - 30), m.start()) is not None:
                 continue

@@ -22,6 +22,7 @@ Values keep their prefixes and suffixes: ``"ypT0"``, ``"rpT2"``, ``"pT1b(m)"``,
 from __future__ import annotations
 
 import re
+from bisect import bisect_left
 from collections.abc import Iterator
 from typing import Any
 
@@ -33,6 +34,8 @@ __all__ = ["TNMReader"]
 
 _PFX = r"(?:[yY][pP]|[rR][pP]|[aA][pP]|[yY][cC]|[pP]|[cC])"
 _PATHOLOGICAL = frozenset({"p", "yp", "rp", "ap"})
+#: How far past a T/N/M letter its look-ahead (in ``TNMReader._cands``) may read.
+_LOOKAHEAD = 4
 
 
 class TNMReader:
@@ -115,19 +118,23 @@ class TNMReader:
         body = region.body
         if "T" not in body and "N" not in body and "M" not in body:
             return []
+        letters = {axis: self._letters(region, axis) for axis in "TNM"}
+        heads = [at.positions(region) for _, at, _, _ in self._heads]
+        if not any(letters.values()) and not any(heads):
+            return []  # every form starts at a heading or at a category's letter
         found: list[tuple[str, Found]] = []
         # Priority: headings, staging strings, lone prefixed N and M.
-        for head, at, token, axis in self._heads:
-            for h in head.match_at(region, at.positions(region)):
+        for (head, _, token, axis), at in zip(self._heads, heads):
+            for h in head.match_at(region, at):
                 m = token.match(body, h.end())
                 if m is not None:
                     f = self._category(m, axis, inherited="p", assumed=False)
                     if f is not None:
                         found.append((axis, f))
-        for m in self._candidates(self._string, "T", body):
+        for m in self._candidates(self._string, letters["T"], body):
             found.extend(self._staging(m, region))
         for pattern, axis in ((self._n_alone, "N"), (self._m_alone, "M")):
-            for m in self._candidates(pattern, axis, body):
+            for m in self._candidates(pattern, letters[axis], body):
                 if not m[axis.lower() + "pre"]:
                     continue
                 f = self._category(m, axis, inherited=None, assumed=False)
@@ -142,13 +149,39 @@ class TNMReader:
                 out.append(region.found(keys[axis], f))
         return out
 
+    def _letters(self, region: Region, letter: str) -> list[int]:
+        """Where a T/N/M letter starts a category in the region (region-relative).
+
+        The letters are found once in the whole report; the look-ahead after a letter
+        near the region's end is checked again on the region (it may not run past it).
+        """
+        memo = region.report.cache
+        key = (id(self), letter)
+        every = memo.get(key)
+        if every is None:
+            every = memo[key] = [
+                c.start() for c in self._cands[letter].finditer(region.report.text)
+            ]
+        if not every:
+            return every
+        rs, re_ = region.start, region.end
+        lo = bisect_left(every, rs)
+        hi = bisect_left(every, re_, lo)
+        if lo == hi:
+            return []
+        scan = self._cands[letter].match
+        body = region.body
+        return [
+            c - rs for c in every[lo:hi] if c + _LOOKAHEAD < re_ or scan(body, c - rs) is not None
+        ]
+
+    @staticmethod
     def _candidates(
-        self, pattern: re.Pattern[str], letter: str, body: str
+        pattern: re.Pattern[str], letters: list[int], body: str
     ) -> Iterator[re.Match[str]]:
         """Matches of ``pattern`` around each T/N/M letter (a prefix starts up to 3 before)."""
         last = 0
-        for c in self._cands[letter].finditer(body):
-            i = c.start()
+        for i in letters:
             if i < last:
                 continue
             for start in range(max(last, i - 3), i + 1):
