@@ -13,7 +13,11 @@ The rules of the label contract (LABELS.md):
 * where the deciding mentions of a label are only broad negations
   ("lymph nodes negative for carcinoma"), a specific affirmation in
   supporting text still counts;
-* an addendum that mentions a label wins over the original text for it;
+* an addendum that mentions a label wins over the original text for it --
+  unless its only mentions are broad negations ("not involved by neoplasm"),
+  which speak of a parent class and so do not amend this label's diagnosis
+  (beyond the letter of the contract: an addendum "changes the diagnosis" only
+  where it names it);
 * a part's state is its most definite positive state among deciding mentions;
   absent only when every deciding mention is negated; affirmed and negated
   together give "present" with a conflict flag; a case's state is the most
@@ -187,6 +191,11 @@ def aggregate(report: ReadReport, scheme: Scheme) -> CaseLabels:
         if not chosen:
             continue
         addenda = [v for v in chosen if v[1]]
+        if all(st == "absent" and b for st, _, b in addenda):
+            # An addendum that only negates a broader class ("margin not involved
+            # by neoplasm") does not change the diagnosis of this label: it wins
+            # only where it speaks of the label itself.
+            addenda = []
         pool = addenda or chosen
         state = _most_definite(s for s, _, _ in pool)
         # only a negation of the label itself contradicts an affirmation of it

@@ -104,6 +104,20 @@ _FUZZY_LINE = re.compile(
     _DECOR + _ENUM + r"(?P<w>[A-Za-z][A-Za-z &/'\-]{6,48}?)[ \t]{0,8}(?P<colon>:?)"
     r"[ \t*=#~_>•·.\-]{0,12}$"
 )
+# An OCR-damaged header written inline, up to its colon ("I1PRESSION:Sub", "INPRE S S ION :"):
+# the head may hold digits, stray marks and spaces between letters.
+_FUZZY_HEAD = re.compile(_DECOR + _ENUM + r"(?P<w>[A-Za-z][A-Za-z0-9 &/'+.!|\-]{5,40}?)[ \t]{0,4}:")
+# Digits OCR reads for letters in a header ("I1PRESSION", "DIAGN0SIS", "5PECIMEN").
+_OCR_LETTERS = str.maketrans("105", "ios")
+_NOT_LETTER = re.compile(r"[^a-z]+")
+#: A squeezed header (letters only) at least this long may have two OCR errors.
+_SQUEEZED_LONG = 10
+# Characters inside a run of capitals that may be a header ("PRE-OPERATIVE DIAGNOSIS").
+_CAPS_RUN = frozenset(" \t-'&/")
+# A garbled decoration line: its marks, its runs of letters and digits, a real word.
+_DECOR_MARKS = "*=#~_"
+_DECORATED_RUN = re.compile(r"[A-Za-z0-9][A-Za-z0-9 ]{4,46}[A-Za-z0-9]")
+_LONG_WORD = re.compile(r"[A-Za-z]{6}")
 _BLANK = re.compile(r"[ \t]*$")
 _INDENTED = re.compile(r"[ \t]+\S")
 
@@ -242,7 +256,8 @@ class HeaderLexicon:
     _part_re: re.Pattern[str] = field(init=False, repr=False)
     _part_line_re: re.Pattern[str] = field(init=False, repr=False)
     _fuzzy: tuple[tuple[str, ...], tuple[str, ...]] = field(init=False, repr=False)
-    _fuzzy_cache: dict[str, str | None] = field(init=False, repr=False)
+    _squeezed: tuple[tuple[str, ...], tuple[str, ...]] = field(init=False, repr=False)
+    _fuzzy_cache: dict[object, str | None] = field(init=False, repr=False)
 
     def __post_init__(self) -> None:
         headers = {normalise_phrase(k): v for k, v in self.headers.items()}
@@ -289,6 +304,10 @@ class HeaderLexicon:
         put(self, "_part_line_re", re.compile(r"^" + part_body, re.MULTILINE))
         long_syn = sorted(p for p in headers if len(p) >= _FUZZY_MIN)
         put(self, "_fuzzy", (tuple(long_syn), tuple(headers[p] for p in long_syn)))
+        squeezed = sorted(
+            {(_squeeze(p), headers[p]) for p in headers if len(_squeeze(p)) >= _FUZZY_MIN}
+        )
+        put(self, "_squeezed", (tuple(q for q, _ in squeezed), tuple(k for _, k in squeezed)))
         put(self, "_fuzzy_cache", {})
 
     # -- construction ---------------------------------------------------------
@@ -354,9 +373,17 @@ class HeaderLexicon:
                 hit = exact(text, m, ls, le, nxt)
             if hit is None and _FUZZY_MIN <= le - ls <= _FUZZY_MAX_LINE:
                 hit = fuzzy(text, ls, le, nxt)
+            inline = False
+            if hit is None and le - ls >= _FUZZY_MIN and find(":", ls, min(le, ls + 64)) >= 0:
+                hit = self._fuzzy_inline(text, ls, le)
+                inline = hit is not None
+            if hit is None and _FUZZY_MIN <= le - ls <= _FUZZY_MAX_LINE:
+                hit = self._fuzzy_decorated(text, ls, le, nxt)
+            if hit is None and text[le - 1] in ": \t":
+                hit = self._trailing(text, ls, le, nxt)
             hits.append(hit)
             if hit is not None:
-                keys.append(hit.ambiguous)
+                keys.append(hit.ambiguous and not inline)
             else:  # a key line needs a colon: skip the regex on the rest
                 keys.append(find(":", ls, le) >= 0 and key_match(text, ls, le) is not None)
         return hits, keys
@@ -427,17 +454,130 @@ class HeaderLexicon:
         query = normalise_phrase(raw)
         if len(query) < _FUZZY_MIN or query.count(" ") > 4:
             return None
-        cache = self._fuzzy_cache
-        if query in cache:
-            kind = cache[query]
-        else:
-            if len(cache) >= _FUZZY_CACHE:
-                cache.clear()  # bounded memory on long runs over unique OCR lines
-            kind = cache[query] = self._nearest_kind(query)
+        kind = self._cached_kind(query, _mostly_capitals(raw))
         if kind is None:
             return None
         hs = m.start("w")
         return _Hit(kind, hs, hs + len(raw), ls, nxt, False)
+
+    def _fuzzy_inline(self, text: str, ls: int, le: int) -> _Hit | None:
+        """An OCR-damaged header in capitals before a colon, alone or with text after it.
+
+        "I1PRESSION:Submitted ...", "INPRE S S ION :", "II+WRESSION:", "FINAI.i DIAGNOSIS:":
+        the head is compared letters-only with the synonyms (see :meth:`_squeezed_kind`).
+        A known checklist key ("Tumor size: 2 cm") is never read this way, nor a head in
+        lower or Title Case, which is the shape of an ordinary ``Key: value`` line.
+        """
+        m = _FUZZY_HEAD.match(text, ls, le)
+        if m is None or self._key_re.match(text, ls, le) is not None:
+            return None
+        raw = m.group("w").rstrip(" -")
+        if not _mostly_capitals(raw):
+            return None
+        kind = self._cached_kind(normalise_phrase(raw), True)
+        if kind is None:
+            return None
+        body = _SPACES.match(text, m.end(), le)
+        assert body is not None
+        hs = m.start("w")
+        # Written "Key:" it may be a damaged checklist key: inside a synoptic
+        # section it is read as one (ambiguous), elsewhere as a header.
+        return _Hit(kind, hs, hs + len(raw), ls, body.end(), True)
+
+    def _trailing(self, text: str, ls: int, le: int, nxt: int) -> _Hit | None:
+        """A header in capitals with a colon that ends a line of other text.
+
+        Page exports join a header to the line before it ("...left vas DIAGNOSIS:",
+        "...at the vascular margin. ADDENDUM:"); the section starts at the header.  The
+        whole run of capitals before the colon must be a synonym of seven
+        letters or more that is not also a checklist key, and what precedes it
+        must not be a comma (a list of sites, "E. RIGHT LUNG, SPECIMEN:").
+        """
+        j = le
+        while j > ls and text[j - 1] in " \t":
+            j -= 1
+        if j - ls < 10 or text[j - 1] != ":":
+            return None
+        he = j - 1
+        while he > ls and text[he - 1] in " \t":
+            he -= 1
+        hs = he
+        while hs > ls and he - hs <= 60 and (text[hs - 1].isupper() or text[hs - 1] in _CAPS_RUN):
+            hs -= 1
+        while hs < he and text[hs] in _CAPS_RUN:
+            hs += 1
+        if hs <= ls or he - hs < 7 or text[ls:hs].rstrip()[-1:] in (",", ""):
+            return None
+        phrase = normalise_phrase(text[hs:he])
+        kind = self.headers.get(phrase)
+        if kind is None or phrase in self._keys or len(phrase.replace(" ", "")) < 7:
+            return None
+        return _Hit(kind, hs, he, hs, nxt, False)
+
+    def _fuzzy_decorated(self, text: str, ls: int, le: int, nxt: int) -> _Hit | None:
+        """A header in capitals inside a line of decoration that OCR has garbled.
+
+        "********'II.*'IIDIAGNOSI5******U***", "at**aat***DIAGNOSIS*t* aaaat***": a
+        line with six or more decoration marks whose one long run of capitals
+        is a damaged header (compared letters-only) and whose other text is no
+        more than stray letters.
+        """
+        line = text[ls:le]
+        if sum(map(line.count, _DECOR_MARKS)) < 6:
+            return None
+        runs = list(_DECORATED_RUN.finditer(line))
+        if not runs:
+            return None
+        run = max(runs, key=lambda r: len(r.group()))
+        raw = run.group()
+        rest = line[: run.start()] + " " + line[run.end() :]
+        if _LONG_WORD.search(rest) or not _mostly_capitals(raw):
+            return None
+        kind = self._cached_kind(normalise_phrase(raw), True)
+        if kind is None:
+            return None
+        return _Hit(kind, ls + run.start(), ls + run.end(), ls, nxt, False)
+
+    def _cached_kind(self, query: str, capitals: bool) -> str | None:
+        cache = self._fuzzy_cache
+        key = (query, capitals)
+        if key in cache:
+            return cache[key]
+        if len(cache) >= _FUZZY_CACHE:
+            cache.clear()  # bounded memory on long runs over unique OCR lines
+        kind = cache[key] = self._nearest_kind(query) or self._squeezed_kind(query, capitals)
+        return kind
+
+    def _squeezed_kind(self, query: str, capitals: bool) -> str | None:
+        """Kind of a header whose OCR damage goes beyond one or two letters.
+
+        Both sides are compared as letters only, digits read as the letters OCR
+        mistakes them for ("I1PRESSION" -> "iipression", "INPRE S S ION" ->
+        "inpression"); a squeezed head of ten letters or more may be two edits
+        from a synonym ("II+WRESSION" -> "iiwression").  A single word that is
+        an ordinary English word ("EXPRESSION") is not a damaged header, nor a
+        head with a word that starts with a digit ("CASSETTE 4D-4E").  Spaced-out
+        letters ("S S ION") are OCR damage in a head in capitals; in a Title Case
+        head a short word after the first is a code ("Clinical M MX").
+        """
+        syns, kinds = self._squeezed
+        q = _squeeze(query)
+        if len(q) < _FUZZY_MIN or len(q) > 48 or not syns:
+            return None
+        words = [w for w in query.split() if any(c.isalnum() for c in w)]
+        if len(words) == 1 and query in _common_words():
+            return None
+        if any(w[0].isdigit() for w in words):
+            return None
+        if not capitals and any(len(w) <= 2 for w in words[1:]):
+            return None
+        cutoff = 2 if len(q) >= _SQUEEZED_LONG else 1
+        found = process.extract(q, syns, scorer=Levenshtein.distance, score_cutoff=cutoff, limit=4)
+        if not found:
+            return None
+        best = min(score for _, score, _ in found)
+        best_kinds = {kinds[i] for _, score, i in found if score == best}
+        return best_kinds.pop() if len(best_kinds) == 1 else None
 
     def _nearest_kind(self, query: str) -> str | None:
         syns, kinds = self._fuzzy
@@ -801,6 +941,35 @@ def _synoptic_runs(
         else:
             i = max(j, i + 1)
     return runs
+
+
+def _squeeze(phrase: str) -> str:
+    """A header as letters only, OCR digits read as letters.
+
+    >>> _squeeze("I1PRESSION"), _squeeze("final diagnosis"), _squeeze("Specimen(s)")
+    ('iipression', 'finaldiagnosis', 'specimens')
+    """
+    return _NOT_LETTER.sub("", phrase.lower().translate(_OCR_LETTERS))
+
+
+@lru_cache(maxsize=8)
+def _common_words_in(path: str) -> frozenset[str]:
+    from .matcher import load_common_words  # the matcher owns the file's format
+
+    try:
+        return load_common_words(path)
+    except VocabError:
+        return frozenset()  # reported by the vocabulary checker, not here
+
+
+def _common_words() -> frozenset[str]:
+    """Ordinary words (``common_words.txt``): never read as a damaged header."""
+    return _common_words_in(str(lexicon_path("common_words.txt")))
+
+
+def _mostly_capitals(raw: str) -> bool:
+    """At most one lower-case letter for five capitals ("FINAI.i DIAGNOSIS")."""
+    return sum(map(str.islower, raw)) * 5 <= sum(map(str.isupper, raw))
 
 
 def _header_shaped(raw: str) -> bool:

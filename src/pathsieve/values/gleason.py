@@ -65,7 +65,9 @@ def grade_group_from_total(total: int) -> int | None:
 
 
 _S = r"[^\S\n]{0,3}"  # a few spaces, not a line break
-_FIELD_SEP = r"[^\S\n]{0,3}[:=.\-]?\s{0,5}"
+# Between a field name and its value: a separator, then perhaps a stray OCR mark
+# or two ("Primary pattern:' 4", "Secondary pattern :,Grade 3").
+_FIELD_SEP = r"[^\S\n]{0,3}[:=.\-]?[^\S\n]{0,2}[.,'\"`]{0,2}\s{0,5}"
 _PAIR = r"(?P<p>[1-5])\s{0,3}\+\s{0,3}(?P<s>[1-5])(?!\d)"
 _NEXT = END_DIGIT
 _ADJACENT = re.compile(r"[\s,;:()\[\]/-]*")
