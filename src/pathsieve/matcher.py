@@ -131,6 +131,7 @@ _OCR_FLOOR = 70.0
 # "squamcus cell carcinoma"); names of up to four words, open words of four or
 # more letters.  Digits OCR makes of letters are read as those letters first.
 _SLOT_MAX_WORDS = 4
+_SPLIT_MIN_PART = 4  # letters in each part of a run-together pair of words
 _SLOT_MIN_LENGTH = 4
 _SLOT_DIGITS = str.maketrans({"0": "o", "1": "l", "5": "s", "8": "b"})
 # Words that, glued to a finding, carry its negation ("no", "not", "negative for").
@@ -1052,6 +1053,9 @@ class ConceptMatcher:
             return replacement, fuzz.ratio(word, replacement)
         if sum(map(str.isdigit, word)) > 2:
             return None  # a code or a number with letters, not a misspelled word
+        split = self._run_together(word)
+        if split is not None:
+            return split, fuzz.ratio(word, split)
         n = len(word)
         choices = idx.targets_by_first.get((n, word[0]), []) + idx.targets_by_last.get(
             (n, word[-2:]), []
@@ -1071,6 +1075,21 @@ class ConceptMatcher:
         if hit[1] < cutoff:
             return None
         return idx.target_text[hit[0]], float(hit[1])
+
+    def _run_together(self, word: str) -> str | None:
+        """Two vocabulary words written as one ("cellcarcinoma" -> "cell carcinoma").
+
+        Both parts must be words of names or synonyms of four letters or more; the
+        longest first part wins.  Only a word that is no known word gets here, and
+        the corrected text must then spell a name for a mention to come of it.
+        """
+        if not word.isalpha() or len(word) < 2 * _SPLIT_MIN_PART:
+            return None
+        vocab = self._index.vocab_words
+        for i in range(len(word) - _SPLIT_MIN_PART, _SPLIT_MIN_PART - 1, -1):
+            if word[:i] in vocab and word[i:] in vocab:
+                return f"{word[:i]} {word[i:]}"
+        return None
 
     def _rematch(self, norm: NormText, padded: str, corrections: list[_Correction]) -> list[_Cand]:
         """Match the corrected text again; keep matches that use a correction."""

@@ -34,6 +34,11 @@ def _labeler(scheme: str) -> Labeler:
          "adenocarcinoma", "ADENOCARCI-\nNOMA"),
         ("cervix", "DIAGNOSIS:\nCervix, biopsy: invasive squamous cell carci noma.\n",
          "squamous_cell_carcinoma", "squamous cell carci noma"),
+        # two words of a name run together (a lost space)
+        ("lung", "DIAGNOSIS:\nLung, lobectomy: SQUAMOUS CELLCARCINOMA, keratinizing.\n",
+         "squamous_cell_carcinoma", "SQUAMOUS CELLCARCINOMA"),
+        ("colorectal", "DIAGNOSIS:\nSigmoid colon, resection: MUCINOUSADENOCARCINOMA.\n",
+         "adenocarcinoma", "MUCINOUSADENOCARCINOMA"),
     ],
 )  # fmt: skip
 def test_broken_word_is_read_whole(scheme: str, text: str, key: str, written: str) -> None:
