@@ -43,6 +43,8 @@ import threading
 from bisect import bisect_left, bisect_right
 from collections.abc import Iterable, Sequence
 from dataclasses import dataclass
+from itertools import accumulate
+from operator import add
 from pathlib import Path
 
 from pathsieve.errors import InputError, VocabError
@@ -92,6 +94,7 @@ _CLOSE = frozenset(")]}")
 _BRACKET_RE = re.compile(r"[()\[\]{}]")
 
 _TOKEN_RE = re.compile(r"\w+|[^\w\s]")
+_PIECE_RE = re.compile(r"(?:\w+|[^\w\s])\s*")
 # Candidate sentence ends and list/heading starts, as three simple patterns
 # (one alternation of all of them scans several times slower).  Periods are
 # checked in Python (abbreviations, a following lowercase word).
@@ -112,16 +115,21 @@ _LINE_RE = re.compile(
 )
 # A field name glued to the value before it by a form export ("Not
 # specifiedTumor site:"): a new field, so a new sentence.
+# The pattern opens on the capital (not on the look-behinds) so that the scan
+# skips to capitals at C speed, and rejects a capital without two lower-case
+# letters after it before any look-behind; the break is the match start.
 _GLUED_HEAD_RE = re.compile(
-    r"(?:(?<=[a-z]{3})|(?<=[A-Z]{3}))(?=[A-Z][a-z]{2,}(?: [A-Za-z]+){0,3} ?:)"
+    r"[A-Z](?=[a-z]{2})(?:(?<=[a-z]{3}[A-Z])|(?<=[A-Z]{4}))(?=[a-z]{2,}(?: [A-Za-z]+){0,3} ?:)"
 )
 # A heading with nothing else on its line ("SOCIAL HISTORY:"), or after a wide
 # gap in flattened text ("...   SOCIAL HISTORY:").
 _BARE_HEAD_RE = re.compile(r"(?:^|(?<=  )|(?<=\t))[ \t]*[A-Z][A-Za-z /&()-]{0,40}:\Z")
 # In text whose line breaks were flattened to runs of spaces: a numbered item
 # ("Normal esophagus   2) Hiatal hernia") or a heading ("...   PLAN:  ").
+# Only the start of a run of spaces is tried, possessively: what follows the run
+# decides, and retrying from every space in a long run is quadratic.
 _FLAT_RE = re.compile(
-    r"  +(?:"
+    r" (?<!  ) ++(?:"
     r"(?=\(?\d{1,2}\)[ \t])"
     r"|(?P<head>(?=[A-Z][A-Za-z/&()-]*(?: [A-Za-z/&()-]+){0,4}:(?:\s|$)))"
     r")"
@@ -328,29 +336,43 @@ def _drop_covered(matches: list[_Hit]) -> list[_Hit]:
 class _Sentence:
     """The tokens of one sentence and the triggers found in them.
 
-    Tokens come from one C-level ``findall`` over the lower-cased text; their
-    character offsets are computed only when a trigger is reported.
+    Built from the lower-cased sentence alone, so one analysis serves every
+    place the same sentence occurs (offsets here are relative to its start).
+    Tokens come from one C-level ``findall``; their character offsets are
+    computed only when a mention falls in a sentence that has triggers.
     """
 
-    __slots__ = ("acting", "depth", "ends", "hi", "lo", "low", "punct", "starts", "terminators")
+    __slots__ = ("acting", "depth", "ends", "punct", "starts", "terminators", "text", "toks")
 
-    def __init__(self, index: _Index, low: str, lo: int, hi: int) -> None:
-        self.low = low
-        self.lo = lo
-        self.hi = hi
+    def __init__(self, index: _Index, firsts: frozenset[str], sent: str) -> None:
+        self.text = sent
         self.punct: list[int] = []
         self.starts: list[int] | None = None  # token offsets, computed on first use
         self.ends: list[int] | None = None
         self.depth: list[int] | None = None
         self.terminators: list[tuple[int, int, frozenset[str]]] = []
-        toks = _TOKEN_RE.findall(low, lo, hi)
+        self.acting: list[_Hit] = []
+        self.toks: list[str] = []
+        toks = _TOKEN_RE.findall(sent)
+        # most sentences hold no trigger word at all, and the rest a few: find
+        # them with a set intersection and list.index (C loops), not per token
+        present = firsts.intersection(toks)
+        if not present:
+            return
+        where: list[int] = []
+        for word in present:
+            i = -1
+            try:
+                while True:
+                    i = toks.index(word, i + 1)
+                    where.append(i)
+            except ValueError:
+                pass
+        where.sort()
         matches: list[_Hit] = []
         last = len(toks) - 1
-        for i, tok in enumerate(toks):
-            entry = index.get(tok)
-            if entry is None:
-                continue
-            single, longer = entry
+        for i in where:
+            single, longer = index[toks[i]]
             for sp in single:
                 matches.append((i, i + 1, sp))
             if longer and i < last:
@@ -365,31 +387,47 @@ class _Sentence:
         self.acting = [m for m in matches if m[2][0] >= 0]
         if not self.acting:
             return
+        self.toks = toks
         self.terminators = [
             (m[0], m[1], m[2][4]) for m in matches if m[2][5].category == "terminate"
         ]
         # punctuation tokens, to count words (not tokens) for scope distances
-        self.punct = [i for i, t in enumerate(toks) if not t[0].isalnum()]
+        punct = self.punct = [i for i, t in enumerate(toks) if not t[0].isalnum()]
         # bracket depth of each token: a trigger inside "( ... )" acts only
-        # inside it ("report (slides not submitted) indicates lymphoma")
-        if _BRACKET_RE.search(low, lo, hi):
+        # inside it ("report (slides not submitted) indicates lymphoma").
+        # Brackets are punctuation tokens: walk those, fill the stretches between.
+        if _BRACKET_RE.search(sent):
             depth: list[int] = []
             d = 0
-            for t in toks:
-                if t in _CLOSE and d:
-                    d -= 1
-                depth.append(d)
-                if t in _OPEN:
+            prev = 0
+            for i in punct:
+                t = toks[i]
+                if t in _CLOSE:
+                    depth += [d] * (i - prev)
+                    if d:
+                        d -= 1
+                    depth.append(d)
+                    prev = i + 1
+                elif t in _OPEN:
+                    depth += [d] * (i - prev)
+                    depth.append(d)
                     d += 1
+                    prev = i + 1
+            depth += [d] * (len(toks) - prev)
             self.depth = depth
 
     def token_range(self, start: int, end: int) -> tuple[int, int]:
         """Indices of the tokens overlapping ``[start, end)`` (first, after last)."""
         starts, ends = self.starts, self.ends
         if starts is None or ends is None:
-            found = list(_TOKEN_RE.finditer(self.low, self.lo, self.hi))
-            starts = self.starts = list(map(_match_start, found))
-            ends = self.ends = list(map(_match_end, found))
+            # each token with the blanks after it: the lengths of these pieces
+            # give the token offsets without one match object per token
+            first = _TOKEN_RE.search(self.text)
+            pieces = _PIECE_RE.findall(self.text)
+            starts = list(accumulate(map(len, pieces[:-1]), initial=first.start() if first else 0))
+            # ends first: a thread that sees ``starts`` set also sees ``ends``
+            ends = self.ends = list(map(add, starts, map(len, self.toks)))
+            self.starts = starts
         return bisect_right(ends, start), bisect_left(starts, end)
 
     def char_span(self, start: int, end: int) -> tuple[int, int]:
@@ -402,6 +440,9 @@ _Index = dict[
     str, tuple[tuple[_Spec, ...], dict[str, list[tuple[list[str], int, tuple[_Spec, ...]]]]]
 ]
 _PLAIN = Assertion()
+# text, sorted boundaries, lower-cased text, break starts, break ends
+_TextBreaks = tuple[str, list[int], str, list[int], list[int]]
+_SENTENCE_CACHE = 4096
 # resolved path -> (modification time, size, engine): an edited file is reloaded
 _CACHE: dict[str, tuple[int, int, AssertionEngine]] = {}
 _CACHE_LOCK = threading.Lock()
@@ -440,6 +481,7 @@ class AssertionEngine:
             else:
                 longer.setdefault(toks[1], []).append((list(toks), len(toks), specs))
         self._index = index
+        self._firsts = frozenset(index)
         self._abbreviations = frozenset(abbreviations)
         self._break_re = _phrase_regex(breaks)
         self._stop_re = re.compile(
@@ -448,6 +490,12 @@ class AssertionEngine:
             + "".join(rf"(?<!\b{re.escape(a)}\.)" for a in sorted(abbreviations))
             + "))"
         )
+        # lower-cased sentence -> its analysis (a pure function of the sentence):
+        # report templates and boilerplate repeat sentences across reports
+        self._sentences: dict[str, _Sentence] = {}
+        # the last text's sentence breaks: the pipeline assesses the values and
+        # then the concept mentions of one report, with the same boundaries
+        self._last: _TextBreaks | None = None
 
     @classmethod
     def load(cls, path: str | Path | None = None) -> AssertionEngine:
@@ -538,14 +586,22 @@ class AssertionEngine:
         if not spans:
             return []
         n = len(text)
-        low = text.lower()
-        if len(low) != n:  # a few characters lower-case to two; keep offsets aligned
-            low = "".join(c if len(c.lower()) != 1 else c.lower() for c in text)
-        breaks = self.sentence_breaks(text, sorted(boundaries))
-        bstarts = [b[0] for b in breaks]
-        bends = [b[1] for b in breaks]
-        nb = len(breaks)
+        bounds = sorted(boundaries)
+        last = self._last
+        if last is not None and last[0] == text and last[1] == bounds:
+            low, bstarts, bends = last[2], last[3], last[4]
+        else:
+            low = text.lower()
+            if len(low) != n:  # a few characters lower-case to two; keep offsets aligned
+                low = "".join(c if len(c.lower()) != 1 else c.lower() for c in text)
+            breaks = self.sentence_breaks(text, bounds)
+            bstarts = [b[0] for b in breaks]
+            bends = [b[1] for b in breaks]
+            self._last = (text, bounds, low, bstarts, bends)
+        nb = len(bstarts)
         index = self._index
+        firsts = self._firsts
+        cache = self._sentences
         sentences: dict[tuple[int, int], _Sentence] = {}
         out: list[Assertion] = []
         for s, e in spans:
@@ -563,14 +619,21 @@ class AssertionEngine:
             hi = bstarts[j] if j < nb else n
             sent = sentences.get((lo, hi))
             if sent is None:
-                sent = sentences[(lo, hi)] = _Sentence(index, low, lo, hi)
-            out.append(_assess_one(text, sent, s, e) if sent.acting else _PLAIN)
+                key = low[lo:hi]
+                sent = cache.get(key)
+                if sent is None:
+                    if len(cache) >= _SENTENCE_CACHE:
+                        cache.clear()  # bounded: a long run of new text starts afresh
+                    sent = cache[key] = _Sentence(index, firsts, key)
+                sentences[(lo, hi)] = sent
+            out.append(_assess_one(text, sent, lo, s, e) if sent.acting else _PLAIN)
         return out
 
 
-def _assess_one(text: str, sent: _Sentence, s: int, e: int) -> Assertion:
-    # token range of the mention: the tokens overlapping [s, e)
-    ms, me = sent.token_range(s, e)
+def _assess_one(text: str, sent: _Sentence, lo: int, s: int, e: int) -> Assertion:
+    # token range of the mention: the tokens overlapping [s, e) (``lo``: where
+    # the sentence starts in ``text``)
+    ms, me = sent.token_range(s - lo, e - lo)
     if me < ms:
         me = ms
     punct = sent.punct
@@ -622,6 +685,8 @@ def _assess_one(text: str, sent: _Sentence, s: int, e: int) -> Assertion:
             category = sp[5].category
             values[axis] = category
             a, b = sent.char_span(ts, te)
+            a += lo
+            b += lo
             hits.append(TriggerHit(text[a:b], a, b, category))
     hits.sort(key=lambda h: h.start)
     return Assertion(values[0], values[1], values[2], tuple(hits))

@@ -57,6 +57,8 @@ import unicodedata
 from bisect import bisect_right
 from collections.abc import Collection
 from dataclasses import dataclass
+from itertools import accumulate
+from operator import add, sub
 
 __all__ = ["NormText", "fold_char", "normalize"]
 
@@ -73,14 +75,21 @@ _WRAP_RE = re.compile(r"-[ \t]*\r?\n[ \t]*")
 # A word run into a capitalised one: the capital starts a new word (the capital
 # is the event; it becomes a space and itself).  After lower case
 # ("colonHistologic"), or after a run of capitals when two or more lower-case
-# letters follow ("CARCINOMAGender"; "NSCLCs" stays whole).
-_CAMEL_RE = re.compile(r"(?<=[a-z]{3})[A-Z](?=[a-z])|(?<=[A-Z]{3})[A-Z](?=[a-z]{2})")
+# letters follow ("CARCINOMAGender"; "NSCLCs" stays whole).  The pattern opens
+# on the capital, not on a look-behind, so the scan skips to capitals at C speed.
+_CAMEL_RE = re.compile(r"[A-Z](?=[a-z])(?:(?<=[a-z]{3}[A-Z])|(?<=[A-Z]{4})(?=[a-z]{2}))")
 _NON_ASCII_RE = re.compile(rf"[^\x00-\x7f][{_COMBINING}]*")
 _SEP_RUN_RE = re.compile(rf"[{_SEPARATORS}]*")
 _LEFT_WORD_RE = re.compile(r"[A-Za-z]+$")
 _RIGHT_WORD_RE = re.compile(r"[A-Za-z]+")
 # Second pass: after the one-for-one translation every separator is a space.
 _SPACE_RUN_RE = re.compile(r"  +")
+_match_start = re.Match.start
+_match_end = re.Match.end
+_plus_one = (1).__add__
+# fold_char of the characters met so far (a pure function; bounded)
+_FOLDED: dict[str, str] = {}
+_FOLDED_MAX = 8192
 
 # ASCII fold table: upper -> lower; separators and whitespace -> space.
 _ASCII_TABLE: dict[int, int | str] = {c: c + 32 for c in range(ord("A"), ord("Z") + 1)}
@@ -201,18 +210,16 @@ def normalize(text: str, *, known_words: Collection[str] | None = None) -> NormT
         if first is not None:
             maps.append(first)
     low = _fold_ascii(work)
-    runs = [m.span() for m in _SPACE_RUN_RE.finditer(low)]
+    runs = list(_SPACE_RUN_RE.finditer(low))
     if runs:
-        ns: list[int] = []
-        os_: list[int] = []
-        oe: list[int] = []
-        removed = 0
-        for s, e in runs:
-            ns.append(s - removed)
-            os_.append(s)
-            oe.append(e)
-            removed += e - s - 1
-        maps.append(_Map(tuple(ns), tuple(n + 1 for n in ns), tuple(os_), tuple(oe)))
+        # the offset map of the collapsed runs, built with C-level maps: run k
+        # starts in the output at its source start less what the runs before
+        # it removed (their lengths less one each)
+        os_ = tuple(map(_match_start, runs))
+        oe = tuple(map(_match_end, runs))
+        before = accumulate(map(sub, oe, os_), initial=0)
+        ns = tuple(map(add, map(sub, os_, before), range(len(os_))))
+        maps.append(_Map(ns, tuple(map(_plus_one, ns)), os_, oe))
         low = _SPACE_RUN_RE.sub(" ", low)
     return NormText(low, text, tuple(maps))
 
@@ -278,7 +285,13 @@ def _first_pass(text: str, known_words: Collection[str] | None) -> tuple[str, _M
         else:
             if unicodedata.combining(text[s]) and s > opos and s - 1 >= 0:
                 s -= 1  # combining marks after an ASCII letter: fold them together
-            out = fold_char(text[s:e])
+            cluster = text[s:e]
+            folded = _FOLDED.get(cluster)  # reports repeat the same few characters
+            if folded is None:
+                folded = fold_char(cluster)
+                if len(_FOLDED) < _FOLDED_MAX:
+                    _FOLDED[cluster] = folded
+            out = folded
             if len(out) == e - s:
                 pieces.append(text[opos:s])
                 pieces.append(out)

@@ -35,6 +35,8 @@ import re
 from collections.abc import Iterable, Mapping
 from dataclasses import dataclass, field
 from functools import lru_cache
+from itertools import accumulate
+from operator import add
 from pathlib import Path
 from typing import Any
 
@@ -71,6 +73,8 @@ _FUZZY_MIN = 8
 _FUZZY_LONG = 15
 _FUZZY_MAX_LINE = 64
 _FUZZY_CACHE = 4096
+_LINE_CACHE = 16384
+_plus_one = (1).__add__
 _SPACE = re.compile(r"\s+")
 _SYNONYM_OK = re.compile(r"[a-z][a-z0-9 ()'&/.\-]*\Z")
 
@@ -175,17 +179,24 @@ def iter_lines(text: str, start: int = 0, end: int | None = None) -> Iterable[tu
 
 
 def _line_table(text: str) -> list[tuple[int, int, int]]:
-    """All lines of ``text`` as :func:`iter_lines` gives them, built in one split."""
-    out = []
-    pos = 0
+    """All lines of ``text`` as :func:`iter_lines` gives them, built in one split.
+
+    Offsets come from running sums of the line lengths (C-level maps, no
+    per-line Python arithmetic).
+    """
+    segs = text.split("\n")
+    lens = list(map(len, segs))
+    starts = list(accumulate(map(_plus_one, lens), initial=0))  # one past the last too
+    ends = list(map(add, starts, lens))
+    if "\r" in text:
+        ends = [e - 1 if s.endswith("\r") else e for s, e in zip(segs, ends)]
+    out = list(zip(starts, ends, starts[1:]))
     stop = len(text)
-    for seg in text.split("\n"):
-        end = pos + len(seg)
-        ce = end - 1 if seg.endswith("\r") else end
-        nxt = min(end + 1, stop)
-        if pos < stop:
-            out.append((pos, ce, nxt))
-        pos = end + 1
+    ls, ce, _ = out[-1]
+    if ls >= stop:  # the text ends with a line break (or is empty): no last line
+        out.pop()
+    else:  # the last line has no line break after it
+        out[-1] = (ls, ce, stop)
     return out
 
 
@@ -231,6 +242,12 @@ class _Hit:
     ambiguous: bool  # also a synoptic key, written "Key: value" -- context decides
 
 
+# A line's reading, cached by its text: (kind, header start, header end, body
+# start, ambiguous) relative to the line start (body -1: the next line), or None;
+# and whether it is a known synoptic key line.
+_LineClass = tuple[tuple[str, int, int, int, int, bool] | None, bool]
+
+
 @dataclass(frozen=True, eq=False)
 class HeaderLexicon:
     """Section-header vocabulary: synonyms per kind, synoptic keys, part keywords.
@@ -258,6 +275,7 @@ class HeaderLexicon:
     _fuzzy: tuple[tuple[str, ...], tuple[str, ...]] = field(init=False, repr=False)
     _squeezed: tuple[tuple[str, ...], tuple[str, ...]] = field(init=False, repr=False)
     _fuzzy_cache: dict[object, str | None] = field(init=False, repr=False)
+    _line_cache: dict[str, _LineClass] = field(init=False, repr=False)
 
     def __post_init__(self) -> None:
         headers = {normalise_phrase(k): v for k, v in self.headers.items()}
@@ -309,6 +327,7 @@ class HeaderLexicon:
         )
         put(self, "_squeezed", (tuple(q for q, _ in squeezed), tuple(k for _, k in squeezed)))
         put(self, "_fuzzy_cache", {})
+        put(self, "_line_cache", {})
 
     # -- construction ---------------------------------------------------------
     @classmethod
@@ -360,12 +379,30 @@ class HeaderLexicon:
         exact = self._exact
         fuzzy = self._fuzzy_at
         find = text.find
+        cache = self._line_cache
         hits: list[_Hit | None] = []
         keys: list[bool] = []
         for ls, le, nxt in lines:
             if le == ls:
                 hits.append(None)
                 keys.append(False)
+                continue
+            # A line's reading is a pure function of its text (the patterns see
+            # nothing outside it), and report templates repeat lines: keep it,
+            # with offsets relative to the line start (-1: the next line).  The
+            # last line without a line break is left out: there a body at the
+            # line end and one on the next line coincide.
+            line = text[ls:le]
+            known = cache.get(line)
+            if known is not None:
+                rel, is_key = known
+                if rel is None:
+                    hits.append(None)
+                else:
+                    kind, hs, he, start, body, ambiguous = rel
+                    body = nxt if body < 0 else ls + body
+                    hits.append(_Hit(kind, ls + hs, ls + he, ls + start, body, ambiguous))
+                keys.append(is_key)
                 continue
             hit = None
             m = header_match(text, ls, le)
@@ -383,9 +420,26 @@ class HeaderLexicon:
                 hit = self._trailing(text, ls, le, nxt)
             hits.append(hit)
             if hit is not None:
-                keys.append(hit.ambiguous and not inline)
+                is_key = hit.ambiguous and not inline
             else:  # a key line needs a colon: skip the regex on the rest
-                keys.append(find(":", ls, le) >= 0 and key_match(text, ls, le) is not None)
+                is_key = find(":", ls, le) >= 0 and key_match(text, ls, le) is not None
+            keys.append(is_key)
+            if nxt > le:
+                if len(cache) >= _LINE_CACHE:
+                    cache.clear()  # bounded memory on long runs over unique lines
+                cache[line] = (
+                    None
+                    if hit is None
+                    else (
+                        hit.kind,
+                        hit.header_start - ls,
+                        hit.header_end - ls,
+                        hit.line_start - ls,
+                        -1 if hit.body_start == nxt else hit.body_start - ls,
+                        hit.ambiguous,
+                    ),
+                    is_key,
+                )
         return hits, keys
 
     def _exact(self, text: str, m: re.Match[str], ls: int, le: int, nxt: int) -> _Hit | None:
