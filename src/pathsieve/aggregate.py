@@ -47,7 +47,7 @@ from .records import (
 )
 from .schemes import Scheme
 
-__all__ = ["CaseLabels", "EvidenceRow", "PartLabels", "aggregate"]
+__all__ = ["CaseLabels", "EvidenceRow", "PartLabels", "aggregate", "section_role"]
 
 _RANK = {s: i for i, s in enumerate(CERTAINTY_ORDER)}  # lower is more definite-positive
 
@@ -120,11 +120,23 @@ def _lead_end(report: ReadReport) -> int:
 def _section_role(
     section: str, report: ReadReport, start: int = -1, lead_end: int = -1, *, value: bool = False
 ) -> str:
+    return section_role(section, report.has_deciding_section, start, lead_end, value=value)
+
+
+def section_role(
+    section: str, has_deciding: bool, start: int = -1, lead_end: int = -1, *, value: bool = False
+) -> str:
+    """ "decide", "support" or "none": what a mention (or value) in ``section`` can do.
+
+    ``has_deciding``: the report has a diagnosis, synoptic or addendum section;
+    ``lead_end``: where its first headed section starts.  A "none" never changes a
+    label; the label-only reader skips such mentions and value regions.
+    """
     if section in DECIDING:
         return "decide"
     if section in SUPPORTING:
         return "support"
-    if not report.has_deciding_section and section not in ("clinical_history",):
+    if not has_deciding and section not in ("clinical_history",):
         # a report with no diagnosis section: its text is the diagnosis
         return "decide" if section != "gross" else "support"
     if section == "other" and (value or 0 <= start < lead_end):

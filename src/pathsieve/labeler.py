@@ -130,7 +130,7 @@ class Labeler:
             return hit
 
         self._read_for_labels = report_reader(
-            self.nlp, value_keys=self.scheme.value_keys, keep_mention=keep
+            self.nlp, value_keys=self.scheme.value_keys, keep_mention=keep, counting_only=True
         )
         # Some pieces (the value readers' patterns) are built on first use.  Build them
         # now: the first report's time budget must not pay for them, an interrupted

@@ -27,6 +27,7 @@ from spacy.language import Language
 from spacy.tokens import Doc
 
 from .abbreviations import AbbreviationDictionary
+from .aggregate import section_role
 from .assertion import AssertionEngine
 from .matcher import ConceptMatcher
 from .ontology import Ontology, load_ontology
@@ -323,6 +324,7 @@ def report_reader(
     *,
     value_keys: Iterable[str] | None = None,
     keep_mention: Callable[[str], bool] | None = None,
+    counting_only: bool = False,
 ) -> Callable[[str], ReadReport]:
     """A function reading a text with ``nlp``'s stages, without tokenizing it.
 
@@ -332,7 +334,10 @@ def report_reader(
     ``value_keys`` runs only the value readers of those keys (a label table
     needs its scheme's value keys only; evidence wants every value), and
     ``keep_mention(concept_id)`` drops the other mentions before they are
-    assessed (a site or a procedure never changes a label).
+    assessed (a site or a procedure never changes a label).  ``counting_only``
+    also drops the mentions, and skips the value regions, of sections that can
+    never change a label (:func:`~pathsieve.aggregate.section_role` "none":
+    clinical history, and gross text in a report with a diagnosis section).
 
     >>> read_fast = report_reader(build_nlp("colorectal"))
     >>> read_fast("DIAGNOSIS: Rectum, biopsy: adenocarcinoma.").mentions[-1].label
@@ -347,8 +352,22 @@ def report_reader(
         mentions, parts, segments = _concepts(st, text, sections, parts)
         if keep_mention is not None:
             mentions = tuple(m for m in mentions if keep_mention(m.concept_id))
+        value_segments: Sequence[Segment] = segments
+        if counting_only:
+            deciding = any(s.kind in DECIDING for s in sections)
+            lead_end = next((s.start for s in sections if s.header), len(text))
+            mentions = tuple(
+                m
+                for m in mentions
+                if section_role(m.section, deciding, m.start, lead_end) != "none"
+            )
+            value_segments = [
+                s
+                for s in segments
+                if section_role(s.section, deciding, s.start, lead_end, value=True) != "none"
+            ]
         bounds = _boundaries(sections, parts)
-        values, value_assertions = _values(st, text, segments, bounds, keys)
+        values, value_assertions = _values(st, text, value_segments, bounds, keys)
         return ReadReport(
             text=text,
             sections=sections,

@@ -2,7 +2,8 @@
 
 Without evidence, labelling runs only the value readers of the scheme's value
 keys and assesses only the mentions that can change a label (sites and
-procedures are evidence only).  The label rows must equal those of the full
+procedures are evidence only), and skips the sections that never decide
+(clinical history; gross text beside a diagnosis section).  The label rows must equal those of the full
 reading, for every scheme, per case and per part, on invented reports in
 every house style and on the bundled demo reports.
 """
