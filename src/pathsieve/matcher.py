@@ -582,7 +582,9 @@ class ConceptMatcher:
         common = frozenset(common_words) if common_words is not None else _default_common_words()
         self._index = _index_for(ontology, self.abbreviations, common, fuzzy_min_length)
         self._fuzzy_cache: dict[str, tuple[str, float] | None] = {}
-        self._slot_cache: dict[str, bool] = {}
+        # words known to be (or not to be) within reach of an open word of a name
+        self._slot_yes: set[str] = set()
+        self._slot_no: set[str] = set()
         self._worth_cache: dict[str, bool | None] = {}
         self._context_cache: dict[
             tuple[str, str, str, bool], tuple[int, str, float, str] | None
@@ -605,13 +607,14 @@ class ConceptMatcher:
         text: str,
         norm: NormText | None = None,
         section_at: Callable[[int], str | None] | None = None,
+        place: Callable[[int], tuple[str, str]] | None = None,
     ) -> list[Mention]:
         """Mentions in ``text``, sorted by start offset.
 
         ``norm`` is ``normalize(text)`` if the caller already has it;
         ``section_at(offset)`` gives the section kind at an original offset,
         used to choose among senses of a short form.  Mentions carry the
-        default section and part; the pipeline fills those in.
+        default section and part, or ``place(start)``'s (section, part).
         """
         idx = self._index
         if norm is None:
@@ -649,7 +652,7 @@ class ConceptMatcher:
         found = exact + self._abbreviations(text, hits, exact, section_at)
         if self.fuzzy_cutoff is not None:
             found += self._fuzzy(norm, padded)
-        return self._resolve(text, found)
+        return self._resolve(text, found, place)
 
     # ------------------------------------------------------------------ stages
 
@@ -856,7 +859,13 @@ class ConceptMatcher:
         # Most words are no open word's near miss: settle that once per word (cached
         # across reports) and skip the walk over the text when no word can be one.
         # The test is implied by the one below, so it changes no answer.
-        open_words = {w for w in candidates if self._slot_plausible(w)}
+        yes, no = self._slot_yes, self._slot_no
+        for w in candidates - yes - no:  # set operations: only new words cost Python
+            (yes if self._slot_plausible(w) else no).add(w)
+        if len(yes) + len(no) > 100_000:
+            yes.clear()  # bounded memory on long runs of OCR noise
+            no.clear()
+        open_words = candidates & yes
         if not open_words:
             return []
         out: list[_Correction] = []
@@ -894,26 +903,18 @@ class ConceptMatcher:
 
     def _slot_plausible(self, word: str) -> bool:
         """Whether ``word`` is within reach of some open word sharing its first or last letter."""
-        cache = self._slot_cache
-        hit = cache.get(word)
-        if hit is None:
-            hit = False
-            if len(word) >= _SLOT_MIN_LENGTH - 1:
-                folded = word.translate(_SLOT_DIGITS)
-                if folded.isalpha():
-                    reach = _slot_reach(folded)
-                    by_end = self._index.slot_words
-                    near = by_end.get(folded[0], ()) + by_end.get("-" + folded[-1], ())
-                    hit = near != () and (
-                        process.extractOne(
-                            folded, near, scorer=Levenshtein.distance, score_cutoff=reach
-                        )
-                        is not None
-                    )
-            if len(cache) > 50_000:
-                cache.clear()
-            cache[word] = hit
-        return hit
+        if len(word) < _SLOT_MIN_LENGTH - 1:
+            return False
+        folded = word.translate(_SLOT_DIGITS)
+        if not folded.isalpha():
+            return False
+        reach = _slot_reach(folded)
+        by_end = self._index.slot_words
+        near = by_end.get(folded[0], ()) + by_end.get("-" + folded[-1], ())
+        return near != () and (
+            process.extractOne(folded, near, scorer=Levenshtein.distance, score_cutoff=reach)
+            is not None
+        )
 
     def _slot_at(self, padded: str, s: int, e: int) -> _Correction | None:
         """The best name the word at ``padded[s:e]`` completes with its neighbours."""
@@ -1143,7 +1144,12 @@ class ConceptMatcher:
             out.append((s - e, 2, entry.neg_depth, s, e, entry.concept_id, round(score, 1), note))
         return out
 
-    def _resolve(self, text: str, found: list[_Cand]) -> list[Mention]:
+    def _resolve(
+        self,
+        text: str,
+        found: list[_Cand],
+        place: Callable[[int], tuple[str, str]] | None = None,
+    ) -> list[Mention]:
         """Longest first, then exact > abbreviation > fuzzy, then the deeper concept."""
         labels = self._index.labels
         found.sort()
@@ -1156,6 +1162,13 @@ class ConceptMatcher:
             taken[s:e] = b"\x01" * (e - s)
             kept.append(c)
         kept.sort(key=lambda c: c[3])
+        if place is not None:
+            return [
+                Mention(
+                    cid, labels.get(cid, cid), text[s:e], s, e, *place(s), _MATCH_NAMES[r], sc, nt
+                )
+                for _, r, _, s, e, cid, sc, nt in kept
+            ]
         return [
             Mention(
                 cid, labels.get(cid, cid), text[s:e], s, e, "other", "", _MATCH_NAMES[r], sc, nt

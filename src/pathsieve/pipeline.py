@@ -173,21 +173,16 @@ def _concepts(
     """Concept mentions placed in their section and part; parts get their sites."""
     segments = _segments(text, sections, parts)
     starts = [s.start for s in segments]
-    mentions = []
 
     def section_at(pos: int) -> str:
         return _locate(segments, starts, pos).section
 
+    def place(pos: int) -> tuple[str, str]:
+        seg = _locate(segments, starts, pos)
+        return seg.section, seg.part
+
     # the section at a short form helps choose among its senses
-    for m in st.matcher.find(text, section_at=section_at):
-        seg = _locate(segments, starts, m.start)
-        # built directly: dataclasses.replace costs several times more per mention
-        mentions.append(
-            Mention(
-                m.concept_id, m.label, m.text, m.start, m.end, seg.section, seg.part,
-                m.match, m.score, m.note,
-            )
-        )  # fmt: skip
+    mentions = st.matcher.find(text, section_at=section_at, place=place)
     filled = tuple(_fill_part_concepts(st, parts, mentions))
     return tuple(mentions), filled, tuple(segments)
 
