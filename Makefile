@@ -28,6 +28,7 @@ test: $(STAMP)
 bench: $(STAMP)
 	$(PY) benchmarks/assertion.py
 	$(PY) benchmarks/throughput.py
+	$(PY) benchmarks/long_report.py
 
 clean:
 	rm -rf $(VENV) demo-output .pytest_cache .mypy_cache .ruff_cache

@@ -117,12 +117,6 @@ def _lead_end(report: ReadReport) -> int:
     return next((s.start for s in report.sections if s.header), len(report.text))
 
 
-def _section_role(
-    section: str, report: ReadReport, start: int = -1, lead_end: int = -1, *, value: bool = False
-) -> str:
-    return section_role(section, report.has_deciding_section, start, lead_end, value=value)
-
-
 def section_role(
     section: str, has_deciding: bool, start: int = -1, lead_end: int = -1, *, value: bool = False
 ) -> str:
@@ -165,6 +159,7 @@ def aggregate(report: ReadReport, scheme: Scheme) -> CaseLabels:
             part_order.append(p.label)
 
     lead_end = _lead_end(report)
+    deciding = report.has_deciding_section  # once: a scan of the sections
     for m, a in zip(report.mentions, report.assertions, strict=True):
         broad: tuple[str, ...] = ()
         if a.certainty == "absent":
@@ -172,7 +167,7 @@ def aggregate(report: ReadReport, scheme: Scheme) -> CaseLabels:
         else:
             own = scheme.labels_for(m.concept_id)
         keys = own + broad
-        role = _section_role(m.section, report, m.start, lead_end)
+        role = section_role(m.section, deciding, m.start, lead_end)
         decides = bool(keys) and a.counts and role != "none"
         evidence.append(EvidenceRow("mention", m.part, keys, m, None, a, decides))
         if not decides:
@@ -184,7 +179,7 @@ def aggregate(report: ReadReport, scheme: Scheme) -> CaseLabels:
 
     values_by_part: dict[str, list[Value]] = defaultdict(list)
     for v, a in zip(report.values, report.value_assertions, strict=True):
-        role = _section_role(v.section, report, v.start, lead_end, value=True)
+        role = section_role(v.section, deciding, v.start, lead_end, value=True)
         decides = a.counts and role != "none"
         evidence.append(EvidenceRow("value", v.part, (v.key,), None, v, a, decides))
         if decides and v.key in scheme.value_keys:
@@ -245,6 +240,7 @@ def _apply_implications(
 ) -> None:
     onto = scheme.ontology
     lead_end = _lead_end(report)
+    deciding = report.has_deciding_section
     for imp in scheme.implications:
         if imp.then_label in plist.states:
             continue
@@ -259,7 +255,7 @@ def _apply_implications(
                     and row.part == plist.part
                     and row.assertion.counts
                     and row.assertion.certainty in ("present", "likely")
-                    and _section_role(m.section, report, m.start, lead_end) != "none"
+                    and section_role(m.section, deciding, m.start, lead_end) != "none"
                     and onto.is_a(m.concept_id, imp.concept)
                 ):
                     why = f"{m.label} ({m.concept_id})"

@@ -557,8 +557,15 @@ class Report:
         return self._low
 
     def mentions_any(self, words: Iterable[str]) -> bool:
-        low = self.low
-        return any(w in low for w in words)
+        """Whether the lower-cased report holds any of ``words`` (memoised per report:
+        readers ask once per region, and a scan of a long report per region was
+        quadratic)."""
+        key = ("mentions_any", tuple(words))
+        hit = self.cache.get(key)
+        if hit is None:
+            low = self.low
+            hit = self.cache[key] = any(w in low for w in key[1])
+        return bool(hit)
 
 
 @dataclass(slots=True)
