@@ -25,7 +25,16 @@ Control categories in the lexicon:
 * ``terminate``: phrases that end a scope ("but", "however", "except") for
   the categories or axes named in the fifth column (``*`` = all);
 * ``break``: phrases that end a sentence (";");
-* ``abbreviation``: words whose final period does not end a sentence.
+* ``abbreviation``: words whose final period does not end a sentence;
+* ``continue``: words that, ending a line, carry its sentence onto the next
+  ("with", "of", "and"): the line was wrapped mid-phrase.
+
+Lines matter in forms and OCR text, where one field takes one line: a trigger
+before its mention does not reach a line that starts a new field (a
+capitalised word in mixed case, a glued part or list marker, a heading line),
+and a trigger whose scope is ``line`` stays on its own line.  Both give way
+where the line was plainly wrapped: after a ``continue`` word, or (``line``)
+right after the trigger itself.
 
 Everything runs on the original text with compiled regular expressions and a
 first-word index of the triggers, and only on the sentences that hold mentions.
@@ -55,6 +64,7 @@ __all__ = [
     "AXIS_OF",
     "CONTROL_CATEGORIES",
     "DIRECTIONS",
+    "NUMBER",
     "AssertionEngine",
     "Trigger",
     "check_triggers",
@@ -73,7 +83,7 @@ AXIS_OF: dict[str, str] = {
     "other": "experiencer",
 }
 AXES: tuple[str, ...] = ("certainty", "temporality", "experiencer")
-CONTROL_CATEGORIES: tuple[str, ...] = ("pseudo", "terminate", "break", "abbreviation")
+CONTROL_CATEGORIES: tuple[str, ...] = ("pseudo", "terminate", "break", "abbreviation", "continue")
 DIRECTIONS: tuple[str, ...] = ("forward", "backward", "both")
 # When two triggers of one axis are equally near, the more guarded reading wins:
 # a hedge next to a negation ("no ... cannot be excluded") is not a plain negation.
@@ -94,6 +104,10 @@ _CLOSE = frozenset(")]}")
 _BRACKET_RE = re.compile(r"[()\[\]{}]")
 
 _TOKEN_RE = re.compile(r"\w+|[^\w\s]")
+#: A lexicon token standing for any number ("no ( <num>" is "NO (0/12)", a
+#: nodal category read by OCR, not a negation).
+NUMBER = "<num>"
+_PHRASE_TOKEN_RE = re.compile(re.escape(NUMBER) + r"|\w+|[^\w\s]")
 _PIECE_RE = re.compile(r"(?:\w+|[^\w\s])\s*")
 # Candidate sentence ends and list/heading starts, as three simple patterns
 # (one alternation of all of them scans several times slower).  Periods are
@@ -141,8 +155,10 @@ class Trigger:
     """One row of the trigger lexicon.
 
     ``scope`` is the largest number of words allowed between the trigger and
-    the mention (``None``: up to the end of the sentence).  ``applies`` names
-    the categories a ``terminate`` row cuts (empty for other rows).
+    the mention (``None``: up to the end of the sentence).  ``within_line``
+    keeps the scope on the trigger's own line (see :data:`NUMBER`, the module
+    notes and the lexicon header).  ``applies`` names the categories a
+    ``terminate`` row cuts (empty for other rows).
     """
 
     phrase: str
@@ -152,6 +168,7 @@ class Trigger:
     scope: int | None = None
     applies: frozenset[str] = frozenset()
     line: int = 0
+    within_line: bool = False
 
     @property
     def axis(self) -> str | None:
@@ -164,7 +181,25 @@ def default_triggers_path() -> Path:
 
 
 def _tokens(phrase: str) -> tuple[str, ...]:
-    return tuple(t.lower() for t in _TOKEN_RE.findall(phrase))
+    return tuple(t.lower() for t in _PHRASE_TOKEN_RE.findall(phrase))
+
+
+def _fits(pattern: Sequence[str], toks: Sequence[str]) -> bool:
+    """Whether tokens match a phrase that holds :data:`NUMBER` placeholders."""
+    return all(p == t or (p == NUMBER and t.isdigit()) for p, t in zip(pattern, toks))
+
+
+def _parse_scope(text: str) -> tuple[int | None, bool] | None:
+    """``-``, ``N``, ``line`` or ``N line`` as (word limit, within the line); None if bad."""
+    words = text.split()
+    within = bool(words) and words[-1] == "line"
+    if within:
+        words.pop()
+    if not words or words == ["-"]:
+        return None, within
+    if len(words) == 1 and words[0].isdigit():
+        return int(words[0]), within
+    return None
 
 
 def _expand_applies(value: str) -> frozenset[str] | None:
@@ -185,8 +220,9 @@ def parse_triggers(path: str | Path) -> tuple[list[Trigger], list[str]]:
     """Read a trigger lexicon; return the valid rows and the problems found.
 
     Each problem reads ``"file:line: message"``.  Columns, tab-separated:
-    phrase, category, direction, scope (words, ``-`` for the whole sentence),
-    applies (``terminate`` rows only: categories or axes, ``*`` for all).
+    phrase, category, direction, scope (words, ``-`` for the whole sentence,
+    ``line`` or ``N line`` to stay on the trigger's line), applies
+    (``terminate`` rows only: categories or axes, ``*`` for all).
     """
     path = Path(path)
     try:
@@ -225,23 +261,39 @@ def parse_triggers(path: str | Path) -> tuple[list[Trigger], list[str]]:
             if not tokens[0] or any(ch.isspace() for ch in tokens[0]):
                 bad(f"abbreviation must be one word, got {phrase!r}")
                 continue
+        elif category == "continue":
+            tokens = _tokens(phrase)
+            if len(tokens) != 1 or not tokens[0].isalnum():
+                bad(f"a continue row takes one word, got {phrase!r}")
+                continue
         else:
             tokens = _tokens(phrase)
         if not phrase or not tokens or not tokens[0]:
             bad("empty trigger phrase")
             continue
+        if NUMBER in tokens and (tokens[0] == NUMBER or category == "break"):
+            bad(
+                f"{NUMBER} stands for a number inside a phrase: not as its first word, "
+                f"nor in a break row ({phrase!r})"
+            )
+            continue
 
         scope: int | None = None
+        within_line = False
         applies: frozenset[str] = frozenset()
         if category in AXIS_OF:
             if direction not in DIRECTIONS:
                 bad(f"bad direction {direction!r} for {phrase!r}; use forward, backward or both")
                 continue
             if scope_text not in _NO_VALUE:
-                if not scope_text.isdigit():
-                    bad(f"bad scope {scope_text!r} for {phrase!r}; use a word count or '-'")
+                parsed_scope = _parse_scope(scope_text)
+                if parsed_scope is None:
+                    bad(
+                        f"bad scope {scope_text!r} for {phrase!r}; use a word count, '-', "
+                        "'line' or a word count then 'line' ('4 line')"
+                    )
                     continue
-                scope = int(scope_text)
+                scope, within_line = parsed_scope
             if applies_text not in _NO_VALUE:
                 bad(f"the fifth column is only for terminate rows, found {applies_text!r}")
                 continue
@@ -277,7 +329,9 @@ def parse_triggers(path: str | Path) -> tuple[list[Trigger], list[str]]:
                 )
                 continue
             seen_axis[(tokens, axis)] = (category, lineno)
-        rows.append(Trigger(phrase, tokens, category, direction, scope, applies, lineno))
+        rows.append(
+            Trigger(phrase, tokens, category, direction, scope, applies, lineno, within_line)
+        )
     if not any(r.axis for r in rows) and not problems:
         problems.append(f"{path}:1: no assertion triggers in the lexicon")
     return rows, problems
@@ -293,12 +347,12 @@ def check_triggers(path: str | Path) -> list[str]:
 
 
 # A trigger compiled for the hot path (plain tuples: no attribute look-ups):
-# (axis index or -1, direction bits, scope, tie rank, applies, trigger)
+# (axis index or -1, direction bits, scope, tie rank, applies, trigger, within line)
 _FORWARD, _BACKWARD = 1, 2
 _DIRECTION_BITS = {"forward": _FORWARD, "backward": _BACKWARD, "both": _FORWARD | _BACKWARD}
 _UNLIMITED = 1 << 30
 _AXIS_INDEX = {axis: i for i, axis in enumerate(AXES)}
-_Spec = tuple[int, int, int, int, frozenset[str], Trigger]
+_Spec = tuple[int, int, int, int, frozenset[str], Trigger, bool]
 # A match: (first token, token after the last, spec)
 _Hit = tuple[int, int, _Spec]
 
@@ -312,6 +366,7 @@ def _spec(t: Trigger) -> _Spec:
         _TIE_RANK.get(t.category, 9),
         t.applies,
         t,
+        t.within_line,
     )
 
 
@@ -342,7 +397,17 @@ class _Sentence:
     computed only when a mention falls in a sentence that has triggers.
     """
 
-    __slots__ = ("acting", "depth", "ends", "punct", "starts", "terminators", "text", "toks")
+    __slots__ = (
+        "acting",
+        "depth",
+        "ends",
+        "lines",
+        "punct",
+        "starts",
+        "terminators",
+        "text",
+        "toks",
+    )
 
     def __init__(self, index: _Index, firsts: frozenset[str], sent: str) -> None:
         self.text = sent
@@ -350,6 +415,8 @@ class _Sentence:
         self.starts: list[int] | None = None  # token offsets, computed on first use
         self.ends: list[int] | None = None
         self.depth: list[int] | None = None
+        # indices of the tokens that open a line (after a single line break)
+        self.lines: list[int] | None = None
         self.terminators: list[tuple[int, int, frozenset[str]]] = []
         self.acting: list[_Hit] = []
         self.toks: list[str] = []
@@ -376,10 +443,17 @@ class _Sentence:
             for sp in single:
                 matches.append((i, i + 1, sp))
             if longer and i < last:
-                cands = longer.get(toks[i + 1])
-                if cands is not None:
-                    for ptoks, k, specs in cands:
-                        if k == 2 or toks[i : i + k] == ptoks:
+                nxt = toks[i + 1]
+                for key in (nxt, NUMBER) if nxt.isdigit() else (nxt,):
+                    cands = longer.get(key)
+                    if cands is None:
+                        continue
+                    for ptoks, k, specs, wild in cands:
+                        if k == 2 or (
+                            _fits(ptoks, toks[i : i + k])
+                            if wild and i + k <= len(toks)
+                            else toks[i : i + k] == ptoks
+                        ):
                             for sp in specs:
                                 matches.append((i, i + k, sp))
         if len(matches) > 1:
@@ -393,6 +467,12 @@ class _Sentence:
         ]
         # punctuation tokens, to count words (not tokens) for scope distances
         punct = self.punct = [i for i, t in enumerate(toks) if not t[0].isalnum()]
+        if "\n" in sent:
+            # a piece is a token with the blanks after it: a line break in
+            # piece k means token k + 1 opens a line
+            self.lines = [
+                k for k, piece in enumerate(_PIECE_RE.findall(sent), start=1) if "\n" in piece
+            ]
         # bracket depth of each token: a trigger inside "( ... )" acts only
         # inside it ("report (slides not submitted) indicates lymphoma").
         # Brackets are punctuation tokens: walk those, fill the stretches between.
@@ -437,7 +517,8 @@ class _Sentence:
 
 
 _Index = dict[
-    str, tuple[tuple[_Spec, ...], dict[str, list[tuple[list[str], int, tuple[_Spec, ...]]]]]
+    str,
+    tuple[tuple[_Spec, ...], dict[str, list[tuple[list[str], int, tuple[_Spec, ...], bool]]]],
 ]
 _PLAIN = Assertion()
 # text, sorted boundaries, lower-cased text, break starts, break ends
@@ -463,10 +544,13 @@ class AssertionEngine:
         self.triggers: tuple[Trigger, ...] = tuple(triggers)
         grouped: dict[tuple[str, ...], list[Trigger]] = {}
         abbreviations: set[str] = set()
+        joiners: set[str] = set()
         breaks: list[tuple[str, ...]] = []
         for t in self.triggers:
             if t.category == "abbreviation":
                 abbreviations.add(t.tokens[0])
+            elif t.category == "continue":
+                joiners.add(t.tokens[0])
             elif t.category == "break":
                 breaks.append(t.tokens)
             else:
@@ -479,10 +563,13 @@ class AssertionEngine:
             if len(toks) == 1:
                 index[toks[0]] = (single + specs, longer)
             else:
-                longer.setdefault(toks[1], []).append((list(toks), len(toks), specs))
+                longer.setdefault(toks[1], []).append(
+                    (list(toks), len(toks), specs, NUMBER in toks)
+                )
         self._index = index
         self._firsts = frozenset(index)
         self._abbreviations = frozenset(abbreviations)
+        self._joiners = frozenset(joiners)
         self._break_re = _phrase_regex(breaks)
         self._stop_re = re.compile(
             _STOP_HEAD
@@ -626,11 +713,13 @@ class AssertionEngine:
                         cache.clear()  # bounded: a long run of new text starts afresh
                     sent = cache[key] = _Sentence(index, firsts, key)
                 sentences[(lo, hi)] = sent
-            out.append(_assess_one(text, sent, lo, s, e) if sent.acting else _PLAIN)
+            out.append(_assess_one(text, sent, lo, s, e, self._joiners) if sent.acting else _PLAIN)
         return out
 
 
-def _assess_one(text: str, sent: _Sentence, lo: int, s: int, e: int) -> Assertion:
+def _assess_one(
+    text: str, sent: _Sentence, lo: int, s: int, e: int, joiners: frozenset[str]
+) -> Assertion:
     # token range of the mention: the tokens overlapping [s, e) (``lo``: where
     # the sentence starts in ``text``)
     ms, me = sent.token_range(s - lo, e - lo)
@@ -638,11 +727,12 @@ def _assess_one(text: str, sent: _Sentence, lo: int, s: int, e: int) -> Assertio
         me = ms
     punct = sent.punct
     depth = sent.depth
+    lines = sent.lines
     terminators = sent.terminators
     best: list[tuple[int, int, int, _Hit] | None] = [None, None, None]
     for hit in sent.acting:
         ts, te, sp = hit
-        axis, bits, scope, tie, _, trig = sp
+        axis, bits, scope, tie, _, trig, within = sp
         if ts < me and te > ms and me > ms:
             # a certainty trigger inside the mention is part of its name ("no
             # acute distress" extracted whole); a temporal or experiencer
@@ -663,6 +753,14 @@ def _assess_one(text: str, sent: _Sentence, lo: int, s: int, e: int) -> Assertio
         else:
             dist = 0
         if dist > scope:
+            continue
+        if (
+            lines is not None
+            and not ts <= ms < te  # not a trigger opening the mention
+            and not _may_cross_lines(
+                text, sent, lo, g0, g1, joiners, forward=order == 0, within=within
+            )
+        ):
             continue
         if depth is not None:
             d = depth[ts]
@@ -690,6 +788,84 @@ def _assess_one(text: str, sent: _Sentence, lo: int, s: int, e: int) -> Assertio
             hits.append(TriggerHit(text[a:b], a, b, category))
     hits.sort(key=lambda h: h.start)
     return Assertion(values[0], values[1], values[2], tuple(hits))
+
+
+# A line that starts a new field or item, whatever came before it (matched at the
+# line's first token): a capitalised word in mixed case ("Moderately
+# differentiated"), a part or list marker glued to its text ("B.Sections",
+# "-METASTATIC"), or a heading line of its own ("COLON, RESECTION:").  An all-caps
+# or lower-case line with none of these may be prose wrapped mid-sentence.
+_NEW_FIELD_RE = re.compile(
+    r"[A-Z][a-z]"
+    r"|(?:[A-Z]|\d{1,2})[.)][A-Za-z]"
+    r"|[-*\u2022\u00b7][A-Za-z]"
+    r"|[^\n]*:[ \t\r]*(?:\n|$)"
+)
+
+
+def _may_cross_lines(
+    text: str,
+    sent: _Sentence,
+    lo: int,
+    g0: int,
+    g1: int,
+    joiners: frozenset[str],
+    *,
+    forward: bool,
+    within: bool,
+) -> bool:
+    """Whether a trigger reaches over the line breaks between it and a mention.
+
+    ``g0``..``g1`` is the token gap, both ends included (the mention may open a
+    line, the trigger may close one).  Report forms and OCR text put one field
+    a line ("qYes No qNA" boxes, "NO (0/20)" then the next field), so:
+
+    * a forward trigger never reaches a line that starts a new field
+      (:data:`_NEW_FIELD_RE`: "qYes No qNA" / "Moderately differentiated
+      carcinoma"), unless the line before ends on a ``continue`` word
+      ("negative for" / "Malignant cells") or is the trigger's own line ending
+      on a colon (a label whose value comes next: "Negative for:" /
+      "Carcinoma");
+    * a line-bound trigger (``within``) crosses a line break only where the
+      line was wrapped: right after the trigger ("status post" / "excision of
+      an adenoma"; before it, for a backward trigger) or after a ``continue``
+      word ("biopsies showing carcinoma with" / "Gleason score 9").
+    """
+    lines = sent.lines
+    assert lines is not None
+    a = bisect_left(lines, g0)
+    b = bisect_right(lines, g1)
+    if a >= b:
+        return True  # all on one line
+    toks = sent.toks
+    punct = sent.punct
+
+    def only_punct(i: int, j: int) -> bool:
+        return bisect_left(punct, j) - bisect_left(punct, i) == j - i
+
+    if within:
+        for idx in range(a, b):
+            k = lines[idx]
+            if toks[k - 1] in joiners:
+                continue
+            if forward and idx == a and only_punct(g0, k):
+                continue  # the trigger closes its line
+            if not forward and idx == b - 1 and only_punct(k, g1):
+                continue  # the trigger opens its line
+            return False
+    if not forward:
+        return True
+    first = lines[a]
+    label = first > g0 and toks[first - 1] == ":" and only_punct(g0, first)
+    starts = sent.starts
+    assert starts is not None
+    n = len(starts)
+    stop = lo + len(sent.text)
+    for idx in range(a + 1 if label else a, b):
+        k = lines[idx]
+        if k < n and toks[k - 1] not in joiners and _NEW_FIELD_RE.match(text, lo + starts[k], stop):
+            return False
+    return True
 
 
 def _phrase_regex(phrases: Sequence[tuple[str, ...]]) -> re.Pattern[str] | None:
