@@ -10,6 +10,11 @@ The rules of the label contract (LABELS.md):
   the diagnosis header) and a value in any "other" section (a staging line
   cut off from its checklist); clinical history and gross never decide
   while a deciding section exists;
+* frozen-section and intraoperative diagnoses are read as comments (their
+  headers map to ``"comment"`` in the header lexicon), so they add support
+  and never override the permanent diagnosis (beyond the letter of the
+  contract, which names no such section: a permanent diagnosis that reads
+  "same" or is lost to OCR still yields its frozen-section diagnosis);
 * where the deciding mentions of a label are only broad negations
   ("lymph nodes negative for carcinoma"), a specific affirmation in
   supporting text still counts;

@@ -13,7 +13,9 @@ Synoptic checklists ("Histologic type: ...", "Margins: ...") are found both
 under a header and as a bare run of three or more known ``Key: value`` lines.
 
 Frozen-section and intraoperative diagnoses are preliminary; their headers map
-to kind ``"other"`` so they never decide a label.
+to kind ``"comment"``: like a comment they add support (they decide only a label
+that no diagnosis, synoptic or addendum section mentions -- a permanent
+diagnosis wrecked by OCR, or one that reads "same"), never overriding it.
 
 The result partitions the whole text: sections are sorted, contiguous and
 cover ``text[0:len(text)]``.  A stretch before the first header is ``"other"``

@@ -41,8 +41,9 @@ def test_shipped_lexicon_covers_every_kind_with_synonyms() -> None:
         ("addendum diagnosis", "addendum"),
         ("supplemental report", "addendum"),
         ("specimen(s) submitted", "other"),
-        ("frozen section diagnosis", "other"),
-        ("intraoperative consultation", "other"),
+        # preliminary diagnoses read like a comment: support, never overriding
+        ("frozen section diagnosis", "comment"),
+        ("intraoperative consultation", "comment"),
         ("cancer summary", "synoptic"),
     ]:
         assert lex.kind_of(phrase) == kind, phrase

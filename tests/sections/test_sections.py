@@ -284,12 +284,12 @@ CASES = [
         ],
     ),
     (
-        "frozen-section-is-preliminary-other",
+        "frozen-section-is-preliminary-comment",
         "FROZEN SECTION DIAGNOSIS:\nCarcinoma, defer grade.\nIntraoperative consultation: "
         "margin free\nFINAL DIAGNOSIS:\nAdenocarcinoma.\n",
         [
-            ("other", "FROZEN SECTION DIAGNOSIS", "Carcinoma, d"),
-            ("other", "Intraoperative consultation", "margin free\n"),
+            ("comment", "FROZEN SECTION DIAGNOSIS", "Carcinoma, d"),
+            ("comment", "Intraoperative consultation", "margin free\n"),
             ("diagnosis", "FINAL DIAGNOSIS", "Adenocarcino"),
         ],
     ),
