@@ -12,6 +12,7 @@ from __future__ import annotations
 import re
 
 import pytest
+from assertion_texts import report_texts
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
@@ -40,21 +41,8 @@ WORDS = [
 SEPARATORS = [" ", "  ", "   ", "\n", "\n\n", "\n- ", "\n2) ", " \t", "", "\u00a0", "\u2003"]
 
 
-@st.composite
-def report(draw: st.DrawFn) -> tuple[str, list[tuple[int, int]], list[int]]:
-    words = draw(st.lists(st.sampled_from(WORDS), min_size=1, max_size=40))
-    seps = draw(st.lists(st.sampled_from(SEPARATORS), min_size=len(words), max_size=len(words)))
-    pieces: list[str] = []
-    offsets: list[tuple[int, int]] = []
-    pos = 0
-    for word, sep in zip(words, seps):
-        offsets.append((pos, pos + len(word)))
-        pieces.append(word + sep)
-        pos += len(word) + len(sep)
-    text = "".join(pieces)
-    chosen = draw(st.lists(st.sampled_from(offsets), max_size=8))
-    cuts = sorted(set(draw(st.lists(st.integers(0, len(text)), max_size=3))))
-    return text, chosen, cuts
+def report() -> st.SearchStrategy[tuple[str, list[tuple[int, int]], list[int]]]:
+    return report_texts(WORDS, SEPARATORS)
 
 
 def _cold_engine() -> AssertionEngine:
