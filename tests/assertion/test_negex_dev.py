@@ -8,33 +8,20 @@ where it is absent.
 
 from __future__ import annotations
 
-import importlib.util
-import sys
 from pathlib import Path
 from types import ModuleType
 
 import pytest
 
-from shared_paths import REPO, shared_file
+from shared_paths import benchmark, shared_file
 
 pytestmark = pytest.mark.shared
-
-
-def _bench() -> ModuleType:
-    name = "pathsieve_assertion_bench"
-    if name not in sys.modules:
-        spec = importlib.util.spec_from_file_location(name, REPO / "benchmarks" / "assertion.py")
-        assert spec is not None and spec.loader is not None
-        module = importlib.util.module_from_spec(spec)
-        sys.modules[name] = module
-        spec.loader.exec_module(module)
-    return sys.modules[name]
 
 
 @pytest.fixture(scope="module")
 def corpus() -> tuple[ModuleType, list]:
     path: Path = shared_file("negex-dev", "context_dev.tsv")
-    bench = _bench()
+    bench = benchmark("assertion")
     rows, unlocated = bench.load_corpus(path)
     assert unlocated == 0
     assert len(rows) > 1000

@@ -9,19 +9,15 @@ here.
 
 from __future__ import annotations
 
-import importlib.util
-import os
-import sys
-from pathlib import Path
-from types import ModuleType
 from typing import Any
 
 import pytest
 
+from shared_paths import SHARED, benchmark
+
 pytestmark = pytest.mark.shared
 
-REPO = Path(__file__).resolve().parents[2]
-TCGA = Path(os.environ.get("PATHSIEVE_SHARED", REPO.parent / "shared")) / "data" / "tcga"
+TCGA = SHARED / "data" / "tcga"
 SAMPLE_EVERY = 3
 
 # Measured on the dev sample (every third report), in brackets; each floor sits
@@ -43,21 +39,11 @@ FLOORS: dict[str, float] = {
 INVENTED_CEILING = 0.03
 
 
-def _benchmark() -> ModuleType:
-    path = REPO / "benchmarks" / "tcga.py"
-    spec = importlib.util.spec_from_file_location("pathsieve_tcga_benchmark", path)
-    assert spec is not None and spec.loader is not None
-    module = importlib.util.module_from_spec(spec)
-    sys.modules[spec.name] = module  # dataclasses look their module up
-    spec.loader.exec_module(module)
-    return module
-
-
 @pytest.fixture(scope="module")
 def summary() -> dict[str, Any]:
     if not (TCGA / "reports_dev.csv").exists():
         pytest.skip(f"shared data not present: {TCGA}")
-    bench = _benchmark()
+    bench = benchmark("tcga")
     cases = bench.load_split("dev", TCGA)[::SAMPLE_EVERY]
     preds, seconds = bench.predict(cases)
     results = bench.evaluate("dev", cases, preds)

@@ -8,11 +8,8 @@ error rows (no id, a repeated id in a later partition, no text) included.
 
 from __future__ import annotations
 
-import importlib.util
-import sys
 from collections.abc import Iterator
 from pathlib import Path
-from types import ModuleType
 from typing import Any
 
 import pandas as pd
@@ -22,25 +19,13 @@ from pathsieve.cli import main
 from pathsieve.cluster import label_dask, pipeline_builds, plan_partitions
 from pathsieve.errors import ConfigError
 from pathsieve.runner import LabelOptions, label_file
+from shared_paths import benchmark
 
 distributed = pytest.importorskip("distributed")
 
 N = 100
 PARTITION_ROWS = 40
 CHUNK_ROWS = 20
-
-REPO = Path(__file__).resolve().parents[2]
-
-
-def _corpus() -> ModuleType:
-    name = "pathsieve_bench_corpus"
-    if name not in sys.modules:
-        spec = importlib.util.spec_from_file_location(name, REPO / "benchmarks" / "corpus.py")
-        assert spec is not None and spec.loader is not None
-        module = importlib.util.module_from_spec(spec)
-        sys.modules[name] = module
-        spec.loader.exec_module(module)
-    return sys.modules[name]
 
 
 @pytest.fixture(scope="module")
@@ -61,14 +46,16 @@ def client() -> Iterator[Any]:
 @pytest.fixture(scope="module")
 def inputs(tmp_path_factory: pytest.TempPathFactory) -> dict[str, Path]:
     root = tmp_path_factory.mktemp("dask")
-    df = _corpus().frame(N, seed=5, organ="mixed")[["case_id", "text"]].copy()
+    df = benchmark("corpus").frame(N, seed=5, organ="mixed")[["case_id", "text"]].copy()
     df.loc[3, "case_id"] = ""
     df.loc[N - 2, "case_id"] = df.loc[1, "case_id"]  # repeated four partitions later
     df.loc[60, "text"] = ""
     paths = {"csv": root / "reports.csv", "jsonl": root / "reports.jsonl"}
     df.to_csv(paths["csv"], index=False)
     df.to_json(paths["jsonl"], orient="records", lines=True, force_ascii=False)
-    pq = _corpus().write_corpus(root / "reports.parquet", N, seed=6, organ="mixed", chunk_rows=25)
+    pq = benchmark("corpus").write_corpus(
+        root / "reports.parquet", N, seed=6, organ="mixed", chunk_rows=25
+    )
     paths["parquet"] = pq
     folder = root / "txt"
     folder.mkdir()
@@ -199,7 +186,7 @@ def test_parquet_integer_ids_and_repeats(client: Any, tmp_path: Path) -> None:
     import pyarrow as pa
     import pyarrow.parquet as pq
 
-    texts = [r.text for r in _corpus().generate(70, seed=8, organ="lung")]
+    texts = [r.text for r in benchmark("corpus").generate(70, seed=8, organ="lung")]
     ids: list[int | None] = list(range(1000, 1070))
     ids[4] = None
     ids[60] = ids[10]  # repeated three partitions later

@@ -10,34 +10,18 @@ every house style and on the bundled demo reports.
 
 from __future__ import annotations
 
-import importlib.util
-import sys
-from pathlib import Path
-from types import ModuleType
-
 import pandas as pd
 import pytest
 
 from pathsieve.labeler import Labeler
+from shared_paths import REPO, benchmark
 
-REPO = Path(__file__).resolve().parents[2]
 SCHEMES = ("colorectal", "prostate", "cervix", "duodenum", "lung", "breast")
-
-
-def _corpus() -> ModuleType:
-    name = "pathsieve_bench_corpus"
-    if name not in sys.modules:
-        spec = importlib.util.spec_from_file_location(name, REPO / "benchmarks" / "corpus.py")
-        assert spec is not None and spec.loader is not None
-        module = importlib.util.module_from_spec(spec)
-        sys.modules[name] = module
-        spec.loader.exec_module(module)
-    return sys.modules[name]
 
 
 @pytest.fixture(scope="module")
 def records() -> list[tuple[str, str, str]]:
-    texts = [r.text for r in _corpus().generate(40, seed=21, organ="mixed")]
+    texts = [r.text for r in benchmark("corpus").generate(40, seed=21, organ="mixed")]
     demo = REPO / "examples" / "demo_reports.csv"
     if demo.exists():  # hand-written awkward cases: addenda, hedges, odd layouts
         texts += pd.read_csv(demo)["text"].fillna("").tolist()[:60]

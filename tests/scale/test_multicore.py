@@ -7,34 +7,19 @@ error rows included.  Speed is measured by benchmarks/throughput.py, not here.
 
 from __future__ import annotations
 
-import importlib.util
-import sys
 from pathlib import Path
-from types import ModuleType
 
 import pandas as pd
 import pytest
 
 from pathsieve.cli import main
 from pathsieve.runner import LabelOptions, label_file
-
-REPO = Path(__file__).resolve().parents[2]
-
-
-def _corpus() -> ModuleType:
-    name = "pathsieve_bench_corpus"
-    if name not in sys.modules:
-        spec = importlib.util.spec_from_file_location(name, REPO / "benchmarks" / "corpus.py")
-        assert spec is not None and spec.loader is not None
-        module = importlib.util.module_from_spec(spec)
-        sys.modules[name] = module
-        spec.loader.exec_module(module)
-    return sys.modules[name]
+from shared_paths import benchmark
 
 
 def _reports(n: int, organ: str) -> pd.DataFrame:
     """Invented reports plus the rows a real export has: no id, a repeated id, no text."""
-    df = _corpus().frame(n, seed=11, organ=organ)[["case_id", "text"]].copy()
+    df = benchmark("corpus").frame(n, seed=11, organ=organ)[["case_id", "text"]].copy()
     df.loc[5, "case_id"] = ""
     df.loc[n - 3, "case_id"] = df.loc[2, "case_id"]  # a duplicate far from its first use
     df.loc[9, "text"] = "   "
