@@ -758,7 +758,7 @@ def _assess_one(
             lines is not None
             and not ts <= ms < te  # not a trigger opening the mention
             and not _may_cross_lines(
-                text, sent, lo, g0, g1, joiners, forward=order == 0, within=within
+                text, sent, lo, g0, g1, joiners, forward=order == 0, within=within, trigger=ts
             )
         ):
             continue
@@ -813,6 +813,7 @@ def _may_cross_lines(
     *,
     forward: bool,
     within: bool,
+    trigger: int = -1,
 ) -> bool:
     """Whether a trigger reaches over the line breaks between it and a mention.
 
@@ -829,7 +830,15 @@ def _may_cross_lines(
     * a line-bound trigger (``within``) crosses a line break only where the
       line was wrapped: right after the trigger ("status post" / "excision of
       an adenoma"; before it, for a backward trigger) or after a ``continue``
-      word ("biopsies showing carcinoma with" / "Gleason score 9").
+      word ("biopsies showing carcinoma with" / "Gleason score 9");
+    * a forward trigger that is the whole value of a field ending its line
+      ("Reviewed: No", token ``trigger`` right after the colon) reaches the next
+      line at most: it answers its own key, and lines further on are other fields;
+    * a backward trigger never reaches back over a whole line when one of the
+      lines it crosses starts a new field: in a column of checklist answers
+      ("Adenocarcinoma" / "G2, moderately differentiated" / "Not identified")
+      each answer belongs to its own key.  Right on the next line it still
+      answers the line before ("Perineural invasion" / "Not identified").
     """
     lines = sent.lines
     assert lines is not None
@@ -853,14 +862,27 @@ def _may_cross_lines(
             if not forward and idx == b - 1 and only_punct(k, g1):
                 continue  # the trigger opens its line
             return False
-    if not forward:
-        return True
-    first = lines[a]
-    label = first > g0 and toks[first - 1] == ":" and only_punct(g0, first)
     starts = sent.starts
     assert starts is not None
     n = len(starts)
     stop = lo + len(sent.text)
+    if not forward:
+        return b - a < 2 or not any(
+            lines[idx] < n
+            and toks[lines[idx] - 1] not in joiners
+            and _NEW_FIELD_RE.match(text, lo + starts[lines[idx]], stop)
+            for idx in range(a, b)
+        )
+    first = lines[a]
+    if (
+        b - a >= 2
+        and trigger > 0
+        and toks[trigger - 1] == ":"
+        and only_punct(g0, first)
+        and (a == 0 or lines[a - 1] < trigger)
+    ):
+        return False  # "Reviewed: No" ends its line: it answers its own key
+    label = first > g0 and toks[first - 1] == ":" and only_punct(g0, first)
     for idx in range(a + 1 if label else a, b):
         k = lines[idx]
         if k < n and toks[k - 1] not in joiners and _NEW_FIELD_RE.match(text, lo + starts[k], stop):

@@ -84,6 +84,28 @@ def temporality_of(fragment: str) -> tuple[str, str | None]:
         ),
         # a hedge on one form line does not reach the next field
         ("Extraprostatic extension\nIndeterminate\n{Seminal vesicle invasion}", P, None),
+        # a column of checklist answers: each answer belongs to its own key, so
+        # a backward negation two answers down negates neither the type above it
+        (
+            "Histologic type:\nHistologic grade:\nLymph-vascular invasion:\n"
+            "Unifocal\n{Adenocarcinoma}\nG2, moderately differentiated\nNot identified",
+            P,
+            None,
+        ),
+        ("Sigmoid colon\n{Adenocarcinoma}\n4.5 cm in greatest dimension\nNot identified", P, None),
+        # ... right on the next line it still answers the line before
+        ("Perineural invasion\n{Lymph-vascular invasion}\nNot identified", A, "Not identified"),
+        ("{Perineural invasion}\nNot identified", A, "Not identified"),
+        ("{Perineural invasion}:\nNot identified", A, "Not identified"),
+        ("NO {CARCINOMA}, IN SITU OR INVASIVE,\nIS IDENTIFIED", A, "NO"),
+        # a field answered "No" at the end of its line reaches the next line at most
+        (
+            "Reviewed:No\n-- 7 --\n__ .. ___\n{ENDOCERVIX}, BIOPSY: MUCINOUS ADENOCARCINOMA",
+            P,
+            None,
+        ),
+        ("Reviewed:No\n-- 7 --\n__ .. ___\nENDOCERVIX, BIOPSY: {MUCINOUS ADENOCARCINOMA}", P, None),
+        ("Margins: negative for\n{invasive carcinoma}", A, "negative for"),
         # real negations still hold
         ("No {carcinoma} identified.", A, "No"),
         ("Negative for {malignancy}.", A, "Negative for"),
