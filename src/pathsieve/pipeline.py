@@ -34,8 +34,9 @@ from .ontology import Ontology, load_ontology
 from .parts import find_parts
 from .records import DECIDING, Assertion, Mention, Part, ReadReport, Section, Segment, Value
 from .schemes import Scheme, load_scheme
-from .sections import find_sections
+from .sections import default_lexicon, find_sections
 from .tokenizer import make_tokenizer
+from .type_fields import TypeFields
 from .values import extract_values
 
 __all__ = ["build_nlp", "read", "read_report", "report_reader"]
@@ -86,6 +87,7 @@ class _State:
             scheme_name=scheme.name if scheme else None,
         )
         self.engine = AssertionEngine.load()
+        self.type_fields = TypeFields.from_lexicon(default_lexicon())
         self.site_root = _root(ontology, "anatomical site")
         self.procedure_root = _root(ontology, "procedure")
 
@@ -183,6 +185,7 @@ def _concepts(
 
     # the section at a short form helps choose among its senses
     mentions = st.matcher.find(text, section_at=section_at, place=place)
+    mentions = st.type_fields.mentions(text, mentions, st.matcher, place)
     filled = tuple(_fill_part_concepts(st, parts, mentions))
     return tuple(mentions), filled, tuple(segments)
 

@@ -111,7 +111,7 @@ class Mention:
     end: int
     section: str = "other"
     part: str = ""
-    match: str = "exact"  # exact | abbreviation | fuzzy
+    match: str = "exact"  # exact | abbreviation | fuzzy | field
     score: float = 100.0
     note: str = ""  # e.g. how an ambiguous abbreviation's sense was chosen
 

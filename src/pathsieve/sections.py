@@ -66,7 +66,15 @@ __all__ = [
 #: File name of the header lexicon under ``ontology/lexicon/``.
 HEADER_FILE = "section_headers.yaml"
 
-_TOP_KEYS = ("version", "headers", "synoptic_keys", "part_keywords", "cassette_headers")
+_TOP_KEYS = (
+    "version",
+    "headers",
+    "synoptic_keys",
+    "part_keywords",
+    "cassette_headers",
+    "type_keys",
+    "type_heads",
+)
 _REQUIRED_KEYS = ("headers", "synoptic_keys", "part_keywords")
 #: Synonyms this short need a colon ("Dx:") -- as bare words they occur in prose.
 _SHORT = 3
@@ -266,6 +274,11 @@ class HeaderLexicon:
     synoptic_keys: Iterable[str]
     part_keywords: Iterable[str]
     cassette_headers: Iterable[str] = ()
+    #: Checklist keys whose value names a tumour type, and the head nouns such a
+    #: value may leave out ("Histologic type: Squamous cell"); see
+    #: :mod:`pathsieve.type_fields`.
+    type_keys: tuple[str, ...] = ()
+    type_heads: tuple[str, ...] = ()
     source: str = "<memory>"
     _keys: frozenset[str] = field(init=False, repr=False)
     _parts: tuple[str, ...] = field(init=False, repr=False)
@@ -347,6 +360,8 @@ class HeaderLexicon:
             data["synoptic_keys"],
             data["part_keywords"],
             data.get("cassette_headers") or (),
+            tuple(data.get("type_keys") or ()),
+            tuple(data.get("type_heads") or ()),
             source=str(path),
         )
 
@@ -727,7 +742,7 @@ def _read_checked(path: Path) -> tuple[dict[str, Any] | None, list[tuple[str, in
                 syns.append(phrase)
 
     lists: dict[str, list[str]] = {}
-    for key in ("synoptic_keys", "part_keywords", "cassette_headers"):
+    for key in ("synoptic_keys", "part_keywords", "cassette_headers", "type_keys", "type_heads"):
         node = top.get(key)
         values: list[str] = []
         first: dict[str, int] = {}
@@ -746,6 +761,15 @@ def _read_checked(path: Path) -> tuple[dict[str, Any] | None, list[tuple[str, in
                         item,
                         f"{key} entry {phrase!r} listed twice (first at line {first[phrase]}); delete one",
                     )
+                    continue
+                if key == "type_keys" and phrase not in lists.get("synoptic_keys", ()):
+                    add(
+                        item,
+                        f"type key {phrase!r} is not a synoptic key; add it under synoptic_keys",
+                    )
+                    continue
+                if key == "type_heads" and not phrase.isalpha():
+                    add(item, f"type head {item.value!r} must be one word of letters")
                     continue
                 if key == "cassette_headers" and seen.get(phrase, ("", 0))[0] != "gross":
                     add(

@@ -60,7 +60,9 @@ BROKEN = [
     (17, "'margins' listed twice (first at line 16)"),
     (19, "part keyword 'part 2' must be one word"),
     (21, "cassette header 'block summary' is not a gross header synonym"),
-    (22, "unknown top-level key 'surprise'"),
+    (23, "type key 'histologic type' is not a synoptic key"),
+    (25, "type head 'squamous carcinoma' must be one word"),
+    (26, "unknown top-level key 'surprise'"),
 ]
 
 
