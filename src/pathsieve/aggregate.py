@@ -328,6 +328,17 @@ def _pick_values(values: Sequence[Value]) -> dict[str, Value]:
             vs = stated or paired or vs
         best_pref = min(_SECTION_PREF.get(v.section, 3) for v in vs)
         pool = [v for v in vs if _SECTION_PREF.get(v.section, 3) == best_pref]
+        if key in ("gleason_score", "grade_group"):
+            # Within the chosen sections, a score called the predominant (overall)
+            # one comes first ("predominant 4+4 with areas of 4+5"), then named
+            # primary/secondary fields, which say which pattern is primary where a
+            # "P+S" string may be a slip ("3+4" in the fields, "4+3" in a summary
+            # line); only then the worst (practice).
+            pool = (
+                [v for v in pool if v.detail.get("main")]
+                or [v for v in pool if v.detail.get("fields")]
+                or pool
+            )
         if key in ("er_status", "pr_status"):
             out[key] = pool[0]
         else:

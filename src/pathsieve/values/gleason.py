@@ -99,19 +99,44 @@ class GleasonReader:
             rf"|(?P<t2>10|[2-9]){_NEXT}(?:\s{{0,2}}/\s{{0,2}}10(?!\d))?"
             rf"(?:\s{{0,3}}[(\[,]\s{{0,2}}(?P<p2>[1-5])\s{{0,3}}\+\s{{0,3}}(?P<s2>[1-5])(?!\d)\s{{0,2}}[)\]]?)?)"
         )
-        field = alternation(lex.phrases("gleason", "field_words"))
-        value = rf"{_FIELD_SEP}(?:{field}{_S}[:=]?\s{{0,3}})?"
-        prim = alternation(lex.phrases("gleason", "primary"))
-        sec = alternation(lex.phrases("gleason", "secondary"))
-        ter = alternation(lex.phrases("gleason", "tertiary"))
+        # A field word may be run onto the field name ("Primarypattern: 3"), and
+        # either may be glued to the word before it in OCR text ("...free of
+        # tumorPRIMARY GLEASON GRADE: 3"): no word boundary is asked for on those
+        # sides (no common word ends in "primary"/"secondary"/"tertiary" or starts
+        # with "pattern"/"grade" after them).
+        field = alternation(lex.phrases("gleason", "field_words"), left=False)
+        # ... or lost to OCR: one or two short tokens with no digit on the field's
+        # own line ("Secondary p.<;lttern: 4", "Primary Pattern: G ade 3").
+        garbled = r"[^\s\d]{1,12}(?:[^\S\n][^\s\d]{1,6})?"
+        value = rf"{_FIELD_SEP}(?:(?:{field}|{garbled}){_S}[:=]?\s{{0,3}})?"
+        # A pattern out of five, its slash sometimes read as a one ("4/5", "415").
+        out_of = r"(?:[1Il]5(?!\d)|" + _NEXT + ")"
+        prim = alternation(lex.phrases("gleason", "primary"), left=False, right=False)
+        sec = alternation(lex.phrases("gleason", "secondary"), left=False, right=False)
+        ter = alternation(lex.phrases("gleason", "tertiary"), left=False, right=False)
         syn_total = alternation(lex.phrases("gleason", "synoptic_total"))
         self._synoptic = Rx(
-            rf"{prim}{value}(?P<p>[1-5]){_NEXT}[\s\S]{{0,80}}?"
-            rf"{sec}{value}(?P<s>[1-5]){_NEXT}"
-            rf"(?:[\s\S]{{0,80}}?{ter}{value}(?P<t3>[1-5]){_NEXT})?"
+            rf"{prim}{value}(?P<p>[1-5]){out_of}[\s\S]{{0,80}}?"
+            rf"{sec}{value}(?P<s>[1-5]){out_of}"
+            rf"(?:[\s\S]{{0,80}}?{ter}{value}(?P<t3>[1-5]){out_of})?"
             rf"(?:[\s\S]{{0,100}}?{syn_total}{_S}(?:\([^()\n]{{0,40}}\))?{_S}[:=]?\s{{0,5}}"
             rf"(?P<t>10|[2-9]){_NEXT})?"
         )
+        # A pair with its total and no name, after a word that introduces a grade
+        # ("Prostatic adenocarcinoma, 5+4=9"; "G eason score 3+4=7" with the name
+        # lost to OCR): read only when the stated total is the sum, so the pair
+        # checks itself, and only in a report that speaks of the prostate or of
+        # Gleason patterns (see ``_scores``).
+        unnamed = alternation(lex.phrases("gleason", "unnamed_heads"))
+        self._unnamed = Rx(
+            rf"(?P<head>{unnamed})[^\S\n]{{0,3}}[,:=]?\s{{0,3}}(?:"
+            rf"(?P<p>[1-5])\s{{0,2}}\+\s{{0,2}}(?P<s>[1-5])\s{{0,2}}=\s{{0,2}}(?P<t>10|[2-9]){_NEXT}"
+            rf"|(?P<t2>10|[2-9])\s{{0,2}}\(\s{{0,2}}(?P<p2>[1-5])\s{{0,2}}\+\s{{0,2}}(?P<s2>[1-5])\s{{0,2}}\))"
+        )
+        self._at_unnamed = Anchors(lex.phrases("gleason", "unnamed_heads"))
+        self._context = lex.phrases("grade_group", "context")
+        self._main = Rx(alternation(lex.phrases("gleason", "main_words")))
+        self._digit = re.compile(r"\d")
         self._tertiary = Rx(rf"[^.\n;]{{0,40}}?{ter}[^\d\n]{{0,25}}?(?P<t3>[1-5]){_NEXT}")
         # no word boundary after the name: "GG1" is as common as "GG 1"
         gg_names = alternation(
@@ -136,7 +161,7 @@ class GleasonReader:
             lex.phrases("grade_group", "name_abbreviations"),
         )
         #: every form starts at one of these (see :func:`~.common.gate`)
-        self.gate = gate(self._at_primary, self._at_name, self._at_gg)
+        self.gate = gate(self._at_primary, self._at_name, self._at_gg, self._at_unnamed)
 
     # -----------------------------------------------------------------------------
     def read(self, region: Region) -> list[Value]:
@@ -144,6 +169,7 @@ class GleasonReader:
             self._at_primary.positions(region)
             or self._at_name.positions(region)
             or self._at_gg.positions(region)
+            or self._at_unnamed.positions(region)
         ):
             return []  # every form starts at one of these words
         scores = self._scores(region)
@@ -154,6 +180,9 @@ class GleasonReader:
                 out.append(region.found("gleason_score", f))
             if gg is not None:
                 detail = {"derived": True, "from_total": f.value is None}
+                for mark in ("fields", "main"):
+                    if f.detail.get(mark):
+                        detail[mark] = True
                 out.append(region.value("grade_group", gg, f.start, f.end, (), detail))
         out.extend(self._stated_groups(region, scores))
         return out
@@ -165,7 +194,11 @@ class GleasonReader:
             p, s = int(m["p"]), int(m["s"])
             t = int(m["t"]) if m["t"] else None
             t3 = int(m["t3"]) if m["t3"] else None
-            found.append(self._score(m.start(), m.end(), p, s, t, t3))
+            f = self._score(m.start(), m.end(), p, s, t, t3)
+            # named fields say which pattern is primary; a "P+S" string may not
+            # (see ``aggregate._pick_values``)
+            f.detail["fields"] = True
+            found.append(f)
         for m in self._headed.match_at(region, self._at_name.positions(region)):
             end = m.end()
             if m["p"]:
@@ -194,9 +227,28 @@ class GleasonReader:
             if tm:
                 t3, end = int(tm["t3"]), tm.end()
             found.append(self._score(m.start(), end, p, s, t, t3))
+        if region.report.mentions_any(self._context):
+            for m in self._unnamed.match_at(region, self._at_unnamed.positions(region)):
+                p, s, t = (int(m[g]) for g in (("p", "s", "t") if m["p"] else ("p2", "s2", "t2")))
+                if p + s == t:
+                    found.append(self._score(m.start(), m.end(), p, s, t, None))
         kept = keep_non_overlapping(found)
         kept.sort(key=lambda f: f.start)
+        for f in kept:
+            # "predominant pattern Gleason score 8 (4+4)", "Gleason grade predominant
+            # pattern 7 (3+4)": a word before the numbers, on the same line, marks
+            # the main score of several
+            if f.value is not None and self._main_word(region, f.start):
+                f.detail["main"] = True
         return kept
+
+    def _main_word(self, region: Region, start: int) -> bool:
+        body = region.body
+        line_start = body.rfind("\n", 0, start) + 1
+        lo = max(line_start, start - 30)
+        m = self._digit.search(body, start)
+        hi = m.start() if m else start
+        return self._main.search(region, lo, hi) is not None
 
     @staticmethod
     def _score(start: int, end: int, p: int, s: int, t: int | None, t3: int | None) -> Found:

@@ -74,6 +74,8 @@ SCHEMA: dict[str, dict[str, str]] = {
         "tertiary",
         "field_words",
         "synoptic_total",
+        "unnamed_heads",
+        "main_words",
     ),
     "grade_group": _lists("names", "name_abbreviations", "ambiguous_names", "context"),
     "marsh": _lists("names", "kind_words", "filler_words"),
