@@ -284,6 +284,9 @@ class Results:
     coverage: dict[str, Tally] = field(default_factory=lambda: defaultdict(Tally))
     ceiling: dict[str, Tally] = field(default_factory=lambda: defaultdict(Tally))
     invented: dict[str, Tally] = field(default_factory=lambda: defaultdict(Tally))
+    # of the "invented" readings with a gold value, those equal to it: a form the
+    # naive detector misses ("Primary pattern: 4/5"), not an invention
+    invented_gold: dict[str, Tally] = field(default_factory=lambda: defaultdict(Tally))
     by_scheme: dict[tuple[str, str], Tally] = field(default_factory=lambda: defaultdict(Tally))
     errors: dict[str, list[tuple[str, str]]] = field(default_factory=lambda: defaultdict(list))
 
@@ -327,6 +330,8 @@ def evaluate(split: str, cases: Sequence[Case], preds: Sequence[Prediction]) -> 
                 r.invented[key].add(got is not None)
                 if got is not None:
                     err(f"{key} invented", got)
+                    if gold.get(key) is not None:
+                        r.invented_gold[key].add(agrees(gold[key], got))
                 continue
             expected = gold.get(key)
             if expected is None:
@@ -354,6 +359,8 @@ def evaluate(split: str, cases: Sequence[Case], preds: Sequence[Prediction]) -> 
                 got = p.values.get(key)
                 if not is_stated:
                     r.invented[key].add(got is not None)
+                    if got is not None and gold.get(key) is not None:
+                        r.invented_gold[key].add(got == gold[key])
                     continue
                 expected = gold.get(key)
                 if expected is None:
@@ -408,6 +415,7 @@ def summary(r: Results) -> dict[str, Any]:
         **figures,
         "ceiling": {k: rate(t) for k, t in r.ceiling.items()},
         "invented": {k: rate(t) for k, t in r.invented.items()},
+        "invented_equal_to_gold": {k: rate(t) for k, t in r.invented_gold.items()},
         "ties_broken": r.ties,
         "targets_met": met,
         "all_targets_met": all(met.values()) and len(met) == len(TARGETS),
@@ -459,6 +467,8 @@ def print_table(r: Results, s: dict[str, Any], errors: int) -> None:
         print(f"  {key + ' ceiling (gold among stated)':<34} {_fmt(r.ceiling.get(key))}")
     for key in ("pt", "pn", "gleason_score", "grade_group"):
         print(f"  {key + ' invented (none stated)':<34} {_fmt(r.invented.get(key))}")
+        if r.invented_gold.get(key):
+            print(f"    {'of those with gold, equal to it':<32} {_fmt(r.invented_gold.get(key))}")
     for (key, scheme), t in sorted(r.by_scheme.items()):
         print(f"  {key + ' agreement, ' + scheme:<34} {_fmt(t)}")
     print(f"  histotype ties broken by report order: {r.ties}")
