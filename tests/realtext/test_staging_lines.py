@@ -53,6 +53,22 @@ def _tnm(text: str) -> dict[str, str]:
         ("this tumor is staged as a pT2NO cancer,", {"pt": "pT2", "pn": "pN0"}, False),
         # ... but an N after a space, before a word, is the word "NO"
         ("pT2 NO EVIDENCE OF LYMPHOVASCULAR INVASION", {"pt": "pT2"}, False),
+        ("pT2 No lymphovascular invasion", {"pt": "pT2"}, False),
+        ("pT3 NOS", {"pt": "pT3"}, False),
+        # OCR letters in every category when a heading makes the string pathological
+        ("Pathological stage TINIMX", {"pt": "pT1", "pn": "pN1"}, False),
+        # an OCR'd subcategory after an OCR'd digit: "pNlb" is pN1b
+        ("Regional lymph nodes: pNlb", {"pn": "pN1b"}, False),
+        ("Astler-Coller C2, pT3, pNlb, R0).", {"pt": "pT3", "pn": "pN1b"}, False),
+        # glued strings go on with M, R, L or V (UICC descriptors)
+        ("(T2aNOMIa, stage IV)", {"pt": "pT2a", "pn": "pN0", "pm": "pM1a"}, True),
+        ("UICC stage: pT3aN1R1.", {"pt": "pT3a", "pn": "pN1"}, False),
+        ("AJCC pathologic staging: pT2bNOM-n/a", {"pt": "pT2b", "pn": "pN0"}, False),
+        ("Tumor classification: G2, pT2 NO LO VO RO.", {"pt": "pT2", "pn": "pN0"}, False),
+        # an N after a slash belongs to the string
+        ("PATHOLOGIC STAGE: T2a2/NO FIGO IIA2", {"pt": "pT2a2", "pn": "pN0"}, False),
+        # a numbered subdivision written apart (cervix: AJCC 8 T1b2)
+        ("Pathologic staging (pTNM): pT 1 b2 N 0 M X", {"pt": "pT1b2", "pn": "pN0"}, False),
     ],
 )
 def test_staging_line_forms(text: str, expected: dict[str, str], assumed: bool) -> None:

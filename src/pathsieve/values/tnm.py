@@ -10,8 +10,11 @@ Values keep their prefixes and suffixes: ``"ypT0"``, ``"rpT2"``, ``"pT1b(m)"``,
 - M0 is a clinical category (there is no pM0): "M0" and "pM0" give ``"cM0"``,
   the latter flagged ``pm0_not_valid``.
 - Clinical strings ("cT2 N0", "clinically T2N0") are not read.
-- OCR digits inside a category ("pNO", "pTIc") are read with the flag
-  ``ocr_corrected``; only where the letter N/T/M makes the category certain.
+- OCR digits inside a category ("pNO", "pTIc", "pNlb") are read with the flag
+  ``ocr_corrected``; only where the letter N/T/M makes the category certain: a
+  prefix, a staging heading ("Pathological stage TINIMX"), or a string that goes
+  on glued or after a slash ("T2aNOMIa", "pT2bNOM-n/a", "T2a2/NO") or with UICC's
+  L/V/R descriptors ("pT2 NO LO VO RO").
 
 >>> from pathsieve.values import extract_values
 >>> t = "Pathologic stage: pT3 N1b MX"
@@ -48,33 +51,42 @@ class TNMReader:
         ocr = "[" + "".join(re.escape(c) for c in self._ocr) + "]"
         # After an OCR letter the category must end the string or meet the next one,
         # so "pT2 No evidence of ..." is not read as pN0.
-        ocr_tail = r"[ \t]{0,3}(?:[,;:.)(/\n]|$|[pPcC]?[NM][ ]?[0-3OXx])"
+        # (the next category may be OCR'd too, "TINIMX"; UICC's L, V and R descriptors
+        # may follow, "pT2 NO LO VO RO")
+        ocr_tail = (
+            rf"[ \t]{{0,3}}(?:[,;:.)(/\n]|$|[pPcC]?[NM][ ]?(?:[0-3Xx]|{ocr})"
+            rf"|[LVR][ ]?(?:[0-2]|{ocr})(?![A-Za-z0-9]))"
+        )
         ocr_end = rf"(?={ocr_tail})"
         # A category with its own prefix ("pNO", "pNl") is certain enough that any
         # word end may follow it: "pNO RO", "pNO Stage IB", "pNI VI".
         ocr_word_end = r"(?![A-Za-z0-9])"
         t_cat = (
             rf"(?P<tc>(?i:is)(?![a-z])|[Xx]|a(?![A-Za-z])"
-            rf"|(?P<td>[0-4]|{ocr}(?=[a-dA-D](?![a-z])|{ocr_tail}))(?P<tsub>mi(?![a-z])|[a-dA-D](?:[1-3](?!\d))?|[ ][a-d](?![A-Za-z]))?)"
+            rf"|(?P<td>[0-4]|{ocr}(?=[a-dA-D](?![a-z])|{ocr_tail}))(?P<tsub>mi(?![a-z])|[a-dA-D](?:[1-3](?!\d))?|[ ][a-d](?:[12](?!\d))?(?![A-Za-z0-9]))?)"
             r"(?P<tm>[ ]?\((?:m|\d{1,2})\))?"
             r"(?=$|[^A-Za-z0-9]|[NM])(?!/[a-dA-D](?![A-Za-z]))"
         )
 
         def n_category(end: str) -> str:
             return (
-                rf"(?P<nc>[Xx]|(?P<nd>[0-3]|{ocr}{end})(?P<nsub>mi(?![a-z])|[a-cA-C](?![a-z]))?)"
+                rf"(?P<nc>[Xx]|(?P<nd>[0-3]|{ocr}(?:(?=[a-cA-C](?![A-Za-z0-9]))|{end}))"
+                r"(?P<nsub>mi(?![a-z])|[a-cA-C](?![a-z]))?)"
                 r"(?P<nsuf>(?:[ ]?\((?:i[+-]|mol[+-]|sn|f)\)){0,2})"
-                r"(?=$|[^A-Za-z0-9]|M)(?!/[a-cA-C](?![A-Za-z]))"
+                r"(?=$|[^A-Za-z0-9]|[MRLV])(?!/[a-cA-C](?![A-Za-z]))"
             )
 
         # An N glued to its T ("pT2NO", "T2NO squamous cell carcinoma") is certain
         # enough for a word end to follow its OCR letter, as after a prefix.
         letters = "".join(re.escape(c) for c in self._ocr)
-        glued = rf"(?<=[0-9a-dA-D{letters}]N{ocr})"
-        n_cat = n_category(rf"(?:{glued}{ocr_word_end}|{ocr_end})")
+        # ... or to it by a slash ("T2a2/NO FIGO IIA2"); M, R, L or V may follow it
+        # glued ("pT2bNOM-n/a").
+        glued = rf"(?<=[0-9a-dA-D{letters}/]N{ocr})"
+        n_cat = n_category(rf"(?:{glued}(?=[MRLV]|{ocr_word_end})|{ocr_end})")
         m_cat = (
-            rf"(?P<mc>[Xx]|(?P<md>[01]|{ocr}{ocr_end})(?P<msub>[a-dA-D](?![a-z]))?)"
-            r"(?=$|[^A-Za-z0-9])"
+            rf"(?P<mc>[Xx]|(?P<md>[01]|{ocr}(?:(?=[a-dA-D](?![A-Za-z0-9]))|{ocr_end}))"
+            r"(?P<msub>[a-dA-D](?![a-z]))?)"
+            r"(?=$|[^A-Za-z0-9]|[RLV])"
         )
         t_tok = rf"(?P<tpre>{_PFX})?(?(tpre)[ ]?)T[ ]?{t_cat}"
         n_tok = rf"(?P<npre>{_PFX})?(?(npre)[ ]?)N[ ]?{n_cat}"
