@@ -35,6 +35,7 @@ The rules of the label contract (LABELS.md):
 
 from __future__ import annotations
 
+import re
 from collections import defaultdict
 from collections.abc import Iterable, Sequence
 from dataclasses import dataclass, field
@@ -52,7 +53,7 @@ from .records import (
 )
 from .schemes import Scheme
 
-__all__ = ["CaseLabels", "EvidenceRow", "PartLabels", "aggregate", "section_role"]
+__all__ = ["CaseLabels", "EvidenceRow", "PartLabels", "aggregate", "section_role", "tnm_rank"]
 
 _RANK = {s: i for i, s in enumerate(CERTAINTY_ORDER)}  # lower is more definite-positive
 
@@ -289,6 +290,31 @@ _MAX_NUMERIC = frozenset(
 )
 
 
+_TNM_RE = re.compile(r"[a-z]*([TNM])(X|is|a|\d)(mi|[a-d])?(\d)?", re.IGNORECASE)
+_TNM_MAIN = {"x": -2.0, "0": 0.0, "a": 0.25, "is": 0.5}
+_TNM_SUB = {"": 0.0, "mi": 0.5, "a": 1.0, "b": 2.0, "c": 3.0, "d": 4.0}
+
+
+def tnm_rank(value: str) -> tuple[float, float, int, int]:
+    """Order of a pT/pN/pM category, least extensive first (AJCC 8th ed.).
+
+    TX/NX (cannot be assessed) rank below every category, Ta and Tis below T1,
+    and a subcategory above its bare category (T2 < T2a < T2b), "mi" below "a"
+    (T1mi < T1a, N1mi < N1a).  Between equal categories the longer writing,
+    which says more ("pT3(m)", "pN0(i+)"), comes last.  An unreadable value ranks
+    lowest.
+
+    >>> sorted(["pTis", "pT2", "pTX", "pT1mi", "pT1a", "pT0", "pTa"], key=tnm_rank)
+    ['pTX', 'pT0', 'pTa', 'pTis', 'pT1mi', 'pT1a', 'pT2']
+    """
+    m = _TNM_RE.match(value)
+    if m is None:
+        return (-9.0, 0.0, 0, 0)
+    main, sub, num = m.group(2).lower(), (m.group(3) or "").lower(), m.group(4)
+    rank = _TNM_MAIN[main] if main in _TNM_MAIN else float(main)
+    return (rank, _TNM_SUB.get(sub, 0.0), int(num) if num else 0, len(value))
+
+
 def _value_rank(v: Value) -> Any:
     """Larger is 'worse' (what a case-level value should report)."""
     key = v.key
@@ -300,7 +326,7 @@ def _value_rank(v: Value) -> Any:
     if key == "marsh_grade":
         return _MARSH_ORDER.get(str(v.value), -1)
     if key in ("pt", "pn", "pm"):
-        return str(v.value).lstrip("ycrpm")
+        return tnm_rank(str(v.value))
     if key in _MAX_NUMERIC or key == "lymph_nodes_positive":
         try:
             return float(v.value)
