@@ -67,6 +67,18 @@ def _tnm(text: str) -> dict[str, str]:
         ("Tumor classification: G2, pT2 NO LO VO RO.", {"pt": "pT2", "pn": "pN0"}, False),
         # an N after a slash belongs to the string
         ("PATHOLOGIC STAGE: T2a2/NO FIGO IIA2", {"pt": "pT2a2", "pn": "pN0"}, False),
+        # a table row under a "Pathological T" column heading; ", NOS" after a category
+        (
+            "Grade/DifferentiationPathological T Pathological N Clinical M Stage\nIII T2,NOS N1 M0",
+            {"pt": "pT2", "pn": "pN1", "pm": "cM0"},
+            False,
+        ),
+        (
+            "Size (cm)HistologyPathological TPathological NClinical M Comments\n"
+            "4.10 02 IB T2,NOS N0 M0 right upper lobe",
+            {"pt": "pT2", "pn": "pN0", "pm": "cM0"},
+            False,
+        ),
         # a numbered subdivision written apart (cervix: AJCC 8 T1b2)
         ("Pathologic staging (pTNM): pT 1 b2 N 0 M X", {"pt": "pT1b2", "pn": "pN0"}, False),
     ],

@@ -128,6 +128,7 @@ SCHEMA: dict[str, dict[str, str]] = {
     ),
     "tnm": _lists(
         "t_headings",
+        "table_headings",
         "n_headings",
         "m_headings",
         "stage_headings",

@@ -94,9 +94,11 @@ class TNMReader:
         sep = r"[ \t,;/]{0,3}"
         nodes = r"(?:\(\d{1,3}/\d{1,3}\)[ \t,;]{0,3})?"
         lb = r"(?<![A-Za-z0-9])"
+        # a category "not otherwise specified" ("T2,NOS N0 M0") goes on to the next
+        nos = r"(?:[ ]?,[ ]?NOS(?![A-Za-z]))?"
         self._string = re.compile(
             # no boundary needed before N and M: the T category already ended ("pT2bN0M0")
-            rf"{lb}(?P<T>{t_tok})(?:{sep}(?P<N>{n_tok}))?(?:{sep}{nodes}(?P<M>{m_tok}))?"
+            rf"{lb}(?P<T>{t_tok}){nos}(?:{sep}(?P<N>{n_tok}))?(?:{sep}{nodes}(?P<M>{m_tok}))?"
         )
         # Alone, an N or M needs its prefix: "No" and "MX" are too often other words.
         self._n_alone = re.compile(
@@ -121,6 +123,13 @@ class TNMReader:
             (*heading("m_headings"), re.compile(rf"(?P<M>{m_tok})"), "M"),
         )
         self._stage_head = Rx(rf"{alternation(lex.phrases('tnm', 'stage_headings'))}[^\n]{{0,40}}$")
+        # a column heading "Pathological T" on one of the two lines above a row
+        columns = []
+        for phrase in lex.phrases("tnm", "table_headings"):
+            *words, letter = phrase.split()
+            lead = r"[ \t]*".join(re.escape(w) for w in words)
+            columns.append(rf"(?i:{lead})[ \t]?{re.escape(letter.upper())}(?![a-z])")
+        self._table_head = re.compile("|".join(columns)) if columns else None
         self._clinical = re.compile(
             rf"{alternation(lex.phrases('tnm', 'clinical_words'))}[^\n]{{0,12}}$", re.IGNORECASE
         )
@@ -208,8 +217,9 @@ class TNMReader:
         pre = (m["tpre"] or "").lower()
         line_start = body.rfind("\n", 0, m.start()) + 1
         # "pTNM: T2 N0 MX": the heading says pathological
-        headed = not pre and self._stage_head.search(
-            region, max(line_start, m.start() - 60), m.start()
+        headed = not pre and (
+            self._stage_head.search(region, max(line_start, m.start() - 60), m.start())
+            or self._under_table_head(body, line_start)
         )
         if not m["N"] and not m["M"] and not pre and not headed:
             return []  # a lone "T2" is too often something else (MRI, vertebra)
@@ -236,6 +246,15 @@ class TNMReader:
                 if f is not None:
                     out.append((axis, f))
         return out
+
+    def _under_table_head(self, body: str, line_start: int) -> bool:
+        """Whether one of the two lines above ``line_start`` heads a pathological T column."""
+        if self._table_head is None or line_start == 0:
+            return False
+        above = body.rfind("\n", 0, line_start - 1)
+        above = body.rfind("\n", 0, above) if above > 0 else -1
+        lo = max(above + 1, line_start - 400)
+        return self._table_head.search(body, lo, line_start) is not None
 
     def _digit(self, ch: str, flags: list[str]) -> str:
         if ch in self._ocr:
