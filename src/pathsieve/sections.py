@@ -108,6 +108,11 @@ _TAIL_NO_NUM = re.compile(
     r"[ \t]{0,8}(?:\([^()\n]{0,40}\)[ \t]{0,8})?(?P<num>)(?P<sep>:|\.|[\-–—]{1,3}(?=[ \t])|)"
 )
 _DECOR_END = re.compile(r"[ \t*=#~_>•·:;.!'\-]{0,40}$")
+# A compound header alone on its line: "MICROSCOPIC/COMMENT", "GROSS / MICROSCOPIC:",
+# "MICROSCOPIC/ COXWW" (the second half lost to OCR).  The first half names it.
+_COMPOUND = re.compile(
+    r"[ \t]{0,3}/[ \t]{0,3}[A-Za-z][A-Za-z &'\-]{1,40}?[ \t]{0,8}:?[ \t*=#~_>•·.\-]{0,12}$"
+)
 _SPACES = re.compile(r"[ \t]*")
 # possessive: a run of blanks that ends the line must not be retried from every start
 _COLUMN_GAP = re.compile(r"(?=[ \t]{2}|\t)[ \t]++(?=\S)")
@@ -481,6 +486,10 @@ class HeaderLexicon:
             if sep == ":" or (not short and (first_upper or decorated)):
                 return _Hit(kind, hs, h_end, ls, nxt, False)
             return None
+        if not sep and not short and (all_caps or first_upper):
+            compound = _COMPOUND.match(text, after, le)
+            if compound is not None:
+                return _Hit(kind, hs, h_end, ls, nxt, False)
         if short and sep != ":":
             return None
         if sep == ":":

@@ -137,3 +137,43 @@ def test_damaged_key_inside_a_checklist_stays_in_it() -> None:
     )
     assert [k for k, _ in _kinds(text)] == ["synoptic"]
     assert "synoptic" in _decides("colorectal", text, "adenocarcinoma")
+
+
+@pytest.mark.parametrize(
+    ("line", "kind", "header"),
+    [
+        ("MICROSCOPIC/ COMMENT", "microscopic", "MICROSCOPIC"),
+        ("MICROSCOPIC / COMMENT:", "microscopic", "MICROSCOPIC"),
+        # the second half lost to OCR: the first half still names the section
+        ("MICROSCOPIC/ COXWW", "microscopic", "MICROSCOPIC"),
+        ("Gross/Microscopic description:", "gross", "Gross"),
+        ("Clinical History /Operative Dx:", "clinical_history", "Clinical History"),
+    ],
+)
+def test_compound_header_line(line: str, kind: str, header: str) -> None:
+    text = f"GROSS DESCRIPTION\nReceived fresh, labelled NL-26-4410.\n{line}\nB. Sections show tumour.\n"
+    assert _kinds(text)[-1] == (kind, header)
+
+
+@pytest.mark.parametrize(
+    "line",
+    [
+        # prose and lower-case lines with a slash are no headers
+        "Carcinoma/ benign tissue",
+        "diagnosis/comment",
+        "MICROSCOPIC/ COMMENT follows in the addendum of 12 June",
+    ],
+)
+def test_not_compound_headers(line: str) -> None:
+    text = f"GROSS DESCRIPTION\nReceived fresh.\n{line}\nB. Sections show tumour.\n"
+    assert _kinds(text) == [("gross", "GROSS DESCRIPTION")]
+
+
+def test_microscopic_under_a_damaged_compound_header_supports_the_label() -> None:
+    text = (
+        "FINAL DIAGNOSIS\nA. CERVIX, BIOPSY:\nINVASIVS BQIIANOCB CELL CARCIN011\n"
+        "GROSS DESCRIPTION\nA. Received in formalin, labelled cervix.\n"
+        "MICROSCOPIC/ COXWW\n"
+        "A. Sections show a 4.2 cm invasive squamous cell carcinoma with high grade features.\n"
+    )
+    assert "microscopic" in _decides("cervix", text, "squamous_cell_carcinoma")
