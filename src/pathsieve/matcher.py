@@ -170,6 +170,7 @@ _LOOSE_NEAR_ANCHOR = 7  # letters of a vouching word that may be one letter off
 _LOOSE_MARGIN = 4.0  # over the best name of an unrelated concept
 _LOOSE_MAX_GAP = 2  # a single punctuation mark between words, no more
 _LOOSE_RESIDUE = 50.0  # least ratio of the damaged words to the rest of the name
+_LOOSE_WORD_MAX = 64  # longer "words" (noise, a million letters) are never weighed
 _TOKEN_RE = re.compile(r"\S+")
 # what a word may be in a loose reading (ConceptMatcher._loose_kind)
 _TRIGGER, _ANCHOR, _BLOCKED = 1, 2, 4
@@ -1078,6 +1079,11 @@ class ConceptMatcher:
             return kind
         idx = self._index
         kind = 0
+        if len(word) > _LOOSE_WORD_MAX:
+            # a run of letters this long is noise, no name's words run together
+            # (and the prefix test below would copy it once per letter)
+            cache[word] = kind
+            return kind
         folded = word.translate(_SLOT_DIGITS)
         anchors = idx.loose_anchors
         n = len(folded)
@@ -1537,8 +1543,8 @@ class ConceptMatcher:
         longest first part wins.  Only a word that is no known word gets here, and
         the corrected text must then spell a name for a mention to come of it.
         """
-        if not word.isalpha() or len(word) < 2 * _SPLIT_MIN_PART:
-            return None
+        if not word.isalpha() or not 2 * _SPLIT_MIN_PART <= len(word) <= _LOOSE_WORD_MAX:
+            return None  # (a longer run of letters is noise: each split would copy it)
         vocab = self._index.vocab_words
         for i in range(len(word) - _SPLIT_MIN_PART, _SPLIT_MIN_PART - 1, -1):
             if word[:i] in vocab and word[i:] in vocab:
