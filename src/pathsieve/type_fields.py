@@ -48,8 +48,18 @@ class TypeFields:
     keys: tuple[str, ...]
     heads: tuple[str, ...]
     _re: re.Pattern[str] | None = field(init=False, repr=False)
+    _firsts: tuple[str, ...] = field(init=False, repr=False)
 
     def __post_init__(self) -> None:
+        # a key's first word as reports write it (lower, Title or UPPER case): a
+        # text holding none of them has no type field, and plain substring tests
+        # are far cheaper than the pattern tried at every position
+        firsts = {k.split()[0] for k in self.keys}
+        object.__setattr__(
+            self,
+            "_firsts",
+            tuple(v for w in sorted(firsts) for v in (w, w.title(), w.upper())),
+        )
         pattern = None
         if self.keys and self.heads:
             alts = "|".join(
@@ -67,7 +77,7 @@ class TypeFields:
 
     def values(self, text: str) -> Iterator[tuple[int, int]]:
         """Spans of the type-field values in ``text``."""
-        if self._re is None:
+        if self._re is None or not any(w in text for w in self._firsts):
             return
         for m in self._re.finditer(text):
             yield m.start("v"), m.end("v")
