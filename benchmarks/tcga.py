@@ -11,7 +11,10 @@ the registry-abstracted gold:
   at that certainty comes first in the report (a report leads with its final
   diagnosis; a scheme's severity order would always pick squamous).  Neither
   scored above absent is the class ``none``.  Accuracy and a confusion table.
-  Colorectal and prostate: recall of ``adenocarcinoma`` present or likely;
+  Colorectal and prostate: recall of ``adenocarcinoma`` present or likely.
+  As context, the share of reports whose text names the gold type at all (a
+  naive letters-only test of its own, :func:`named_types`: forms, tick-box
+  sheets and OCR-wrecked names fail it) and the accuracy on those;
 * **pt, pn** -- agreement *where the report states a pathological category*
   and coverage.  "States" is decided by a naive regular expression of its own
   (:func:`stated_categories`), independent of pathsieve's readers: a
@@ -143,6 +146,30 @@ def stated_gleason(text: str) -> tuple[set[str], set[int]]:
     pairs |= {f"{m[1]}+{m[2]}" for m in _PRIMARY_SECONDARY.finditer(text)}
     groups = {int(m[1]) for m in _GRADE_GROUP.finditer(text)}
     return pairs, groups
+
+
+_LETTERS = re.compile(r"[^a-z]")
+_NAMED = {
+    "adenocarcinoma": re.compile(r"adenocarc"),
+    "squamous_cell_carcinoma": re.compile(r"squamous(?:cell)?carc"),
+}
+
+
+def named_types(text: str) -> set[str]:
+    """The histological types a report names anywhere, by a naive test of its own.
+
+    The text is cut to its letters ("adeno- carcinoma", "SQUAMOUS CELL
+    CARCINOMA" both read), and any naming counts, negated or not: this is a
+    ceiling (a report that never names its type cannot be labelled from its
+    text), not a reading.
+
+    >>> sorted(named_types("Squamous cell carci- noma; no adeno carcinoma"))
+    ['adenocarcinoma', 'squamous_cell_carcinoma']
+    >>> named_types("Squamous + - Adenomatous + -")
+    set()
+    """
+    letters = _LETTERS.sub("", text.lower())
+    return {key for key, rx in _NAMED.items() if rx.search(letters)}
 
 
 def category_key(value: str) -> str:
@@ -283,6 +310,10 @@ class Results:
     agreement: dict[str, Tally] = field(default_factory=lambda: defaultdict(Tally))
     coverage: dict[str, Tally] = field(default_factory=lambda: defaultdict(Tally))
     ceiling: dict[str, Tally] = field(default_factory=lambda: defaultdict(Tally))
+    # histological type: the share of gold cases whose text names the gold type
+    # (naively), and the accuracy (recall) on those
+    named: dict[str, Tally] = field(default_factory=lambda: defaultdict(Tally))
+    named_hit: dict[str, Tally] = field(default_factory=lambda: defaultdict(Tally))
     invented: dict[str, Tally] = field(default_factory=lambda: defaultdict(Tally))
     # of the "invented" readings with a gold value, those equal to it: a form the
     # naive detector misses ("Primary pattern: 4/5"), not an invention
@@ -311,6 +342,11 @@ def evaluate(split: str, cases: Sequence[Case], preds: Sequence[Prediction]) -> 
             if len(want) == 1:
                 ok = p.histotype == want[0]
                 r.histo[c.scheme].add(ok)
+                if want[0] in named_types(c.text):
+                    r.named[c.scheme].add(True)
+                    r.named_hit[c.scheme].add(ok)
+                else:
+                    r.named[c.scheme].add(False)
                 r.confusion[c.scheme][(want[0], p.histotype)] += 1
                 r.ties += p.tie_broken
                 if not ok:
@@ -319,6 +355,11 @@ def evaluate(split: str, cases: Sequence[Case], preds: Sequence[Prediction]) -> 
             score = p.scores.get("adenocarcinoma")
             ok = score is not None and score >= 0.75
             r.recall[c.scheme].add(ok)
+            if "adenocarcinoma" in named_types(c.text):
+                r.named[c.scheme].add(True)
+                r.named_hit[c.scheme].add(ok)
+            else:
+                r.named[c.scheme].add(False)
             if not ok:
                 err("adenocarcinoma missed", f"score {score}")
 
@@ -414,6 +455,8 @@ def summary(r: Results) -> dict[str, Any]:
         "max_chars": max(r.chars, default=0),
         **figures,
         "ceiling": {k: rate(t) for k, t in r.ceiling.items()},
+        "type_named": {k: rate(t) for k, t in sorted(r.named.items())},
+        "histotype_where_named": {k: rate(t) for k, t in sorted(r.named_hit.items())},
         "invented": {k: rate(t) for k, t in r.invented.items()},
         "invented_equal_to_gold": {k: rate(t) for k, t in r.invented_gold.items()},
         "ties_broken": r.ties,
@@ -465,6 +508,9 @@ def print_table(r: Results, s: dict[str, Any], errors: int) -> None:
     print("context (no target)")
     for key in ("pt", "pn", "gleason_score"):
         print(f"  {key + ' ceiling (gold among stated)':<34} {_fmt(r.ceiling.get(key))}")
+    for scheme in sorted(r.named):
+        print(f"  {scheme + ' type named in the text':<34} {_fmt(r.named[scheme])}")
+        print(f"    {'histotype right where named':<32} {_fmt(r.named_hit.get(scheme))}")
     for key in ("pt", "pn", "gleason_score", "grade_group"):
         print(f"  {key + ' invented (none stated)':<34} {_fmt(r.invented.get(key))}")
         if r.invented_gold.get(key):
