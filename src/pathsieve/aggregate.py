@@ -38,7 +38,7 @@ from __future__ import annotations
 import re
 from collections import defaultdict
 from collections.abc import Iterable, Sequence
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from typing import Any
 
 from .records import (
@@ -187,6 +187,13 @@ def aggregate(report: ReadReport, scheme: Scheme) -> CaseLabels:
     for v, a in zip(report.values, report.value_assertions, strict=True):
         role = section_role(v.section, deciding, v.start, lead_end, value=True)
         decides = a.counts and role != "none"
+        fitted = scheme.fit_category(v)
+        if fitted is None:
+            # a category the organ's staging system lacks: evidence, never a label
+            v = replace(v, flags=(*v.flags, "category_not_in_scheme"))
+            decides = False
+        else:
+            v = fitted
         evidence.append(EvidenceRow("value", v.part, (v.key,), None, v, a, decides))
         if decides and v.key in scheme.value_keys:
             values_by_part[v.part].append(v)

@@ -14,8 +14,9 @@ edit it, and pass its path wherever a scheme name is accepted.
 from __future__ import annotations
 
 import contextlib
+import re
 from collections.abc import Sequence
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from functools import lru_cache
 from pathlib import Path
 from typing import Any, Literal
@@ -25,7 +26,7 @@ from pydantic import BaseModel, ConfigDict, Field, ValidationError, model_valida
 
 from .errors import ConfigError, SchemeError
 from .ontology import Ontology, load_ontology
-from .records import CERTAINTY_SCORE
+from .records import CERTAINTY_SCORE, Value
 from .values import VALUE_KEYS
 from .vocab import file_digest, schemes_dir
 
@@ -34,6 +35,7 @@ __all__ = [
     "Implication",
     "LabelDef",
     "Scheme",
+    "category_core",
     "check_scheme",
     "list_schemes",
     "load_scheme",
@@ -88,6 +90,26 @@ class _SchemeModel(BaseModel):
     values: list[str] = Field(default_factory=list)
     severity: list[str] = Field(default_factory=list)
     implications: list[_ImplicationModel] = Field(default_factory=list)
+    categories: dict[str, list[str]] = Field(default_factory=dict)
+
+
+#: A T/N/M category's core, between its prefix ("yp") and its suffixes ("(m)", "(sn)").
+_CATEGORY = re.compile(
+    r"^(?P<pre>[a-z]*)(?P<core>(?P<main>[TNM](?:is|X|\d))(?:mi|[a-d]\d?)?)(?P<suf>.*)$"
+)
+_STAGING_KEYS = {"pt": "T", "pn": "N", "pm": "M"}
+
+
+def category_core(value: str) -> tuple[str, str] | None:
+    """The core of a staging value and its bare category, or None if unreadable.
+
+    >>> category_core("ypT2a(m)"), category_core("pN0(i+)"), category_core("cM0")
+    (('T2a', 'T2'), ('N0', 'N0'), ('M0', 'M0'))
+    >>> category_core("pT1b2"), category_core("pT1mi"), category_core("3+4=7")
+    (('T1b2', 'T1'), ('T1mi', 'T1'), None)
+    """
+    m = _CATEGORY.match(str(value))
+    return (m["core"], m["main"]) if m else None
 
 
 @dataclass(frozen=True, slots=True)
@@ -124,6 +146,9 @@ class Scheme:
     implications: tuple[Implication, ...]
     path: str
     ontology: Ontology = field(repr=False)
+    #: the T/N/M categories the organ's staging system has, per value key ("pt": {"T2a", ...});
+    #: a key not listed here is not checked
+    categories: dict[str, frozenset[str]] = field(default_factory=dict)
     _memo: dict[str, tuple[str, ...]] = field(default_factory=dict, repr=False)
 
     @property
@@ -143,6 +168,29 @@ class Scheme:
         )
         self._memo[concept_id] = keys
         return keys
+
+    def fit_category(self, v: Value) -> Value | None:
+        """``v`` as this organ's staging system has it, or None where it has no such category.
+
+        A category the organ's system lacks is refused ("pT1c" for a prostatectomy:
+        there is no pathological T1 there); a subcategory it lacks, of a category it
+        has, is read as that category ("pT3b" for a colon, a subdivision some
+        laboratories use, is the AJCC pT3), flagged ``subcategory_not_in_scheme``.
+        Values of keys the scheme lists no categories for pass unchanged.
+        """
+        allowed = self.categories.get(v.key)
+        if not allowed:
+            return v
+        m = _CATEGORY.match(str(v.value))
+        if m is None or m["core"] in allowed:
+            return v
+        if m["main"] in allowed:
+            return replace(
+                v,
+                value=f"{m['pre']}{m['main']}{m['suf']}",
+                flags=(*v.flags, "subcategory_not_in_scheme"),
+            )
+        return None
 
     def primary(self, positive: Sequence[str]) -> str:
         """The most severe of ``positive`` label keys by the scheme's order ("" if none)."""
@@ -277,6 +325,26 @@ def _problems(
                 f"{at('implications', i, 'when')}: value {imp.when.value!r} is not among this "
                 "scheme's values"
             )
+    for key, cats in model.categories.items():
+        letter = _STAGING_KEYS.get(key)
+        if letter is None:
+            problems.append(
+                f"{at('categories', key)}: categories are for pt, pn and pm, not {key!r}"
+            )
+            continue
+        if key not in model.values:
+            problems.append(f"{at('categories', key)}: {key!r} is not among this scheme's values")
+        seen: set[str] = set()
+        for i, cat in enumerate(cats):
+            core = category_core(cat)
+            if core is None or core[0] != cat or not cat.startswith(letter):
+                problems.append(
+                    f"{at('categories', key, i)}: {cat!r} is not a bare {letter} category "
+                    f"(write it as {letter}2a, {letter}X, {letter}is: no prefix, no suffix)"
+                )
+            elif cat in seen:
+                problems.append(f"{at('categories', key, i)}: {cat!r} is listed twice")
+            seen.add(cat)
     return problems
 
 
@@ -334,6 +402,7 @@ def _load(path_str: str, digest: str, onto_path: str, onto_digest: str) -> Schem
         implications=implications,
         path=path_str,
         ontology=onto,
+        categories={k: frozenset(v) for k, v in model.categories.items()},
     )
 
 

@@ -99,7 +99,10 @@ def test_file_shape(name: str) -> None:
         "values",
         "severity",
         "implications",
+        "categories",
     }
+    # every staging value the scheme emits is checked against its organ's categories
+    assert set(data["categories"]) == {"pt", "pn", "pm"} & set(data["values"])
     assert data["scheme"] == name
     assert data["title"] and data["source"] and data["organ"]
     for key, label in data["labels"].items():
