@@ -10,7 +10,8 @@
   removed, "CIN 2" <-> "CIN2"), matched with one Aho-Corasick automaton over
   the normalised text.  Matching text and keys both have punctuation turned
   into spaces and are padded with a space, so a key can only match whole
-  words;
+  words; a name never runs over a sentence end to a name of the next sentence
+  ("adenocarcinoma.\n-Metastatic ..." is no "adenocarcinoma, metastatic");
 * **abbreviation** - the rows of the abbreviation dictionary and the
   ABBREVIATION synonyms of the ontology the dictionary does not list, matched
   as whole tokens of the *original* text (case-sensitively where the row says
@@ -25,9 +26,14 @@
   vocabulary word when similar enough (rapidfuzz ``ratio`` at or above
   ``fuzzy_cutoff``; words shorter than ``fuzzy_min_length`` are never
   corrected alone), or when undoing one typical OCR confusion ("rn" for "m",
-  "0" for "o", "v" for "y") spells a vocabulary word (score 95).  Two
+  "0" for "o", "v" for "y") spells a vocabulary word (score 95), or, in a word
+  of nine letters or more, when undoing a glyph run ("rn", "nn", "ri" for one
+  letter) leaves a word within the cut-off ("adeuocarcinorna").  A word known
+  only as a generated spelling ("squamouscell", of "squamous-cell
+  carcinomas") is still corrected where it stands alone.  Two
   neighbouring words are joined when together they spell a vocabulary word
-  ("adeno carcinoma", "car.cinoma"), and a word that is two vocabulary words
+  ("adeno carcinoma", "car.cinoma", and "squamo us", the first half a known
+  fragment that is no common word), and a word that is two vocabulary words
   run together is split.  Inside a multi-word name whose other words are
   written right, an ordinary or misread word one or two letters off the
   name's word is read as it ("squamous call carcinoma", "squamous 0e11
@@ -141,7 +147,17 @@ _OCR_CONFUSIONS: tuple[tuple[str, str], ...] = (
     ("i", "l"),
     ("5", "s"),
     ("v", "y"),
+    ("nn", "m"),
+    ("in", "m"),
+    ("ri", "n"),
+    ("ii", "u"),
+    ("u", "n"),
+    ("n", "u"),
 )
+#: Runs of two glyphs an OCR engine makes of one letter; undone, a long word may
+#: still be a slip away from a vocabulary word.
+_OCR_RUNS = tuple((w, r) for w, r in _OCR_CONFUSIONS if len(w) == 2 and len(r) == 1)
+_OCR_RUN_MIN_WORD = 9
 # Score of a vocabulary word reached by undoing one OCR confusion: as good as
 # one dropped letter in a long word, above any sensible cut-off.
 _OCR_SCORE = 95.0
@@ -319,6 +335,12 @@ class _Index:
     sense_cues: dict[Sense, frozenset[str]]
     vocab_words: frozenset[str]
     known_words: frozenset[str]
+    #: words known only from generated spellings ("squamouscell", of "squamous-cell
+    #: carcinomas" without its hyphen): written alone they are still corrected
+    variant_words: frozenset[str]
+    #: a known fragment that starts a name's word -> the endings that complete it
+    #: ("squamo" -> "us": "squamo us" is "squamous", both halves being words)
+    split_heads: dict[str, frozenset[str]]
     targets_by_first: dict[tuple[int, str], list[str]]
     targets_by_last: dict[tuple[int, str], list[str]]
     target_text: dict[str, str]
@@ -470,6 +492,17 @@ def _build_index(
         parts = key.split()
         if len(parts) == 2 and all(p.isalpha() for p in parts):
             target_text.setdefault("".join(parts), key)
+    primary_words = frozenset(w for key in primary for w in key.split())
+    variant_words = vocab_words - primary_words - common_words - abbreviation_words
+    split_heads_sets: dict[str, set[str]] = {}
+    for t, text_of in target_text.items():
+        if t != text_of or not t.isalpha():
+            continue
+        for k in range(_SPLIT_MIN_PART, len(t) - 1):
+            head = t[:k]
+            if head in vocab_words and head not in common_words and len(t) - k <= 4:
+                split_heads_sets.setdefault(head, set()).add(t[k:])
+    split_heads = {h: frozenset(v) for h, v in split_heads_sets.items()}
     # Candidates for a word of length n: targets within 2 letters of n that
     # share its first letter, plus those that share its last two (a slip seldom
     # hits both ends of a word; scanning every target would cost 10x more).
@@ -552,6 +585,8 @@ def _build_index(
         sense_cues=sense_cues,
         vocab_words=vocab_words,
         known_words=known,
+        variant_words=variant_words,
+        split_heads=split_heads,
         targets_by_first=by_first,
         targets_by_last=by_last,
         target_text=target_text,
@@ -938,11 +973,16 @@ class ConceptMatcher:
         distinct = set(padded.split())
         unknown = distinct - idx.known_words
         in_context = self._slot_corrections(padded, distinct - idx.vocab_words)
-        if not unknown and not in_context:
+        if (
+            not unknown
+            and not in_context
+            and distinct.isdisjoint(idx.variant_words)
+            and distinct.isdisjoint(idx.split_heads)
+        ):
             return []
         loose = self._loose(norm, padded, distinct, unknown) if unknown else []
-        corrections: list[_Correction] = []
-        for word in unknown:
+        corrections: list[_Correction] = self._known_splits(padded, distinct)
+        for word in unknown | (distinct & idx.variant_words):
             single = self._worth_correcting(word)
             if single is None:
                 continue  # nothing this word could become: skip finding it
@@ -965,6 +1005,31 @@ class ConceptMatcher:
                 kept.append(c)
         kept.sort(key=lambda c: c.start)
         return self._rematch(norm, padded, kept) + loose
+
+    def _known_splits(self, padded: str, distinct: set[str]) -> list[_Correction]:
+        """A name's word split into two known words ("squamo us" -> "squamous").
+
+        The first half is a known fragment that is no common word (``split_heads``:
+        "squamo", of "squamo-columnar"), the second the exact rest of the word,
+        across a single space.  Two common words never join ("a typical" stays).
+        """
+        heads = self._index.split_heads
+        out: list[_Correction] = []
+        for head in distinct.intersection(heads):
+            ends = heads[head]
+            if ends.isdisjoint(distinct):
+                continue  # the usual case: "lymph" is here, "oma" is not
+            needle = f" {head} "
+            at = padded.find(needle)
+            while at >= 0:
+                s = at + 1
+                e = s + len(head)
+                nxt_end = padded.find(" ", e + 1)
+                nxt = padded[e + 1 : nxt_end] if nxt_end > e + 1 else ""
+                if nxt in ends:
+                    out.append(_Correction(s, nxt_end, head + nxt, 100.0, f"{head} {nxt}"))
+                at = padded.find(needle, e)
+        return out
 
     # ------------------------------------------------------------------ loose names
 
@@ -1533,7 +1598,25 @@ class ConceptMatcher:
                 if variant in idx.target_text:
                     return idx.target_text[variant], _OCR_SCORE
         if hit[1] < cutoff:
-            return None
+            # a long word with one glyph run undone ("adeuocarcinorna": "rn" -> "m"),
+            # then a slip within the cut-off: the run costs nothing, the slip its
+            # ratio.  Only runs of two glyphs read as one letter, and only in words
+            # of nine letters or more: a single-letter swap in a short word
+            # ("focality", "corion") comes too close to other words.
+            if len(word) < _OCR_RUN_MIN_WORD:
+                return None
+            best: tuple[str, float] | None = None
+            for variant in _ocr_variants(word, _OCR_RUNS):
+                n = len(variant)
+                near = idx.targets_by_first.get((n, variant[0]), []) + idx.targets_by_last.get(
+                    (n, variant[-2:]), []
+                )
+                v_hit = process.extractOne(variant, near, scorer=fuzz.ratio, score_cutoff=cutoff)
+                if v_hit is not None and (best is None or v_hit[1] > best[1]):
+                    best = (v_hit[0], float(v_hit[1]))
+            if best is None:
+                return None
+            return idx.target_text[best[0]], best[1]
         return idx.target_text[hit[0]], float(hit[1])
 
     def _run_together(self, word: str) -> str | None:
@@ -1617,6 +1700,8 @@ class ConceptMatcher:
         for c in found:
             s, e = c[3], c[4]
             if e <= s or taken.find(1, s, e) != -1:
+                continue
+            if _joins_two_sentences(text, s, e, found):
                 continue
             taken[s:e] = b"\x01" * (e - s)
             kept.append(c)
@@ -1791,10 +1876,45 @@ def _glued_negation(written: str, replacement: str) -> bool:
     return False
 
 
-def _ocr_variants(word: str) -> list[str]:
+#: A sentence or clause end inside a span: ";", ":", "!" or "?" before white space,
+#: or a full stop after a word of two letters or more ("carcinoma. Metastatic"),
+#: never after an initial ("H. pylori", "C. difficile").
+_SENTENCE_END = re.compile(r"[;:!?](?=\s)|(?<=[^\W_][^\W_])\.(?=\s)")
+_END_CHARS = frozenset(";:!?.")
+_NEXT_WORD = re.compile(r"[\W_]*?([^\W\d_])")
+
+
+def _joins_two_sentences(text: str, s: int, e: int, found: Sequence[_Cand]) -> bool:
+    r"""Whether the candidate ``text[s:e]`` joins a whole name to the next sentence.
+
+    A name written with a comma ("adenocarcinoma, metastatic") is matched with
+    its punctuation read as a space, so it could join the end of one sentence or
+    line to the start of the next ("... adenocarcinoma.\n-Metastatic ...") and
+    take the first name's place.  Refused where the span runs over a sentence or
+    clause end (:data:`_SENTENCE_END`) and what comes before that end is a
+    candidate name by itself, unless the text goes on in lower case; a name that
+    OCR broke with a stray full stop ("squamous celi. carcinoma") still reads,
+    its first half being no name.
+    """
+    span = text[s:e]
+    if _END_CHARS.isdisjoint(span):
+        return False
+    ends = None
+    for m in _SENTENCE_END.finditer(span):
+        nxt = _NEXT_WORD.match(span, m.end())
+        if nxt is not None and nxt.group(1).islower():
+            continue  # a sentence goes on in lower case: a stray mark ("cell.\ncarcinoma")
+        if ends is None:
+            ends = {c[4] for c in found if c[3] == s}
+        if s + m.start() in ends:
+            return True
+    return False
+
+
+def _ocr_variants(word: str, confusions: tuple[tuple[str, str], ...] | None = None) -> list[str]:
     """The word with one OCR confusion undone, each place in turn."""
     out = []
-    for wrong, right in _OCR_CONFUSIONS:
+    for wrong, right in _OCR_CONFUSIONS if confusions is None else confusions:
         at = word.find(wrong)
         while at >= 0:
             out.append(word[:at] + right + word[at + len(wrong) :])
