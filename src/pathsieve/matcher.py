@@ -158,6 +158,8 @@ _OCR_CONFUSIONS: tuple[tuple[str, str], ...] = (
 #: still be a slip away from a vocabulary word.
 _OCR_RUNS = tuple((w, r) for w, r in _OCR_CONFUSIONS if len(w) == 2 and len(r) == 1)
 _OCR_RUN_MIN_WORD = 9
+#: Words this long may be two slips off a vocabulary word (and three off any other).
+_TWO_SLIPS_MIN_WORD = 12
 # Score of a vocabulary word reached by undoing one OCR confusion: as good as
 # one dropped letter in a long word, above any sensible cut-off.
 _OCR_SCORE = 95.0
@@ -1538,9 +1540,16 @@ class ConceptMatcher:
         return side, replacement, score, written
 
     def _closest_join(self, first: str, second: str) -> tuple[str, float] | None:
-        if len(first) < 2 or len(second) < 2 or not second.isalpha() or not first.isalpha():
+        if len(second) < 2 or not second.isalpha() or not first.isalpha():
             return None
         joined = first + second
+        if len(first) < 2:
+            # a lone letter split off a word ("C ARCINOMA") joins an unknown rest
+            # only, spelling a word exactly: "a typical" never becomes "atypical"
+            if second in self._index.known_words:
+                return None
+            replacement = self._index.target_text.get(joined)
+            return (replacement, 100.0) if replacement is not None else None
         if len(joined) < self.fuzzy_min_length:
             return None
         idx = self._index
@@ -1597,6 +1606,18 @@ class ConceptMatcher:
             for variant in _ocr_variants(word):
                 if variant in idx.target_text:
                     return idx.target_text[variant], _OCR_SCORE
+        if hit[1] < cutoff and len(word) >= _TWO_SLIPS_MIN_WORD:
+            # a long word two letters off one vocabulary word, and three off any
+            # other ("aaenocarcinomo", "adenocarc1nomo"): a slip at each of two
+            # places, which a ratio cut-off made for short words refuses
+            folded = word.translate(_SLOT_DIGITS)
+            if folded.isalpha():
+                slips = process.extract(
+                    folded, set(choices), scorer=Levenshtein.distance, score_cutoff=3, limit=3
+                )
+                two = [t for t, d, _ in slips if d <= 2]
+                if len(two) == 1 and _two_apart_slips(folded, two[0]):
+                    return idx.target_text[two[0]], round(fuzz.ratio(folded, two[0]), 1)
         if hit[1] < cutoff:
             # a long word with one glyph run undone ("adeuocarcinorna": "rn" -> "m"),
             # then a slip within the cut-off: the run costs nothing, the slip its
@@ -1608,10 +1629,10 @@ class ConceptMatcher:
             best: tuple[str, float] | None = None
             for variant in _ocr_variants(word, _OCR_RUNS):
                 n = len(variant)
-                near = idx.targets_by_first.get((n, variant[0]), []) + idx.targets_by_last.get(
+                near_v = idx.targets_by_first.get((n, variant[0]), []) + idx.targets_by_last.get(
                     (n, variant[-2:]), []
                 )
-                v_hit = process.extractOne(variant, near, scorer=fuzz.ratio, score_cutoff=cutoff)
+                v_hit = process.extractOne(variant, near_v, scorer=fuzz.ratio, score_cutoff=cutoff)
                 if v_hit is not None and (best is None or v_hit[1] > best[1]):
                     best = (v_hit[0], float(v_hit[1]))
             if best is None:
@@ -1909,6 +1930,26 @@ def _joins_two_sentences(text: str, s: int, e: int, found: Sequence[_Cand]) -> b
         if s + m.start() in ends:
             return True
     return False
+
+
+def _two_apart_slips(word: str, target: str) -> bool:
+    """Whether ``word`` is ``target`` with one or two letters misread, apart, not the first.
+
+    Same length (OCR misreads letters; a lost or added letter changes the word
+    more: "adenosarcomas" is no "adenocarcinomas"), and two misread letters not
+    side by side (an ending changed whole is another word: "adenocarcinoid").
+
+    >>> _two_apart_slips("aaenocarcinomo", "adenocarcinoma")
+    True
+    >>> _two_apart_slips("adenocarcinoid", "adenocarcinoma")
+    False
+    >>> _two_apart_slips("bdenocarcinomo", "adenocarcinoma")
+    False
+    """
+    if len(word) != len(target) or word[0] != target[0]:
+        return False
+    at = [i for i, (a, b) in enumerate(zip(word, target, strict=True)) if a != b]
+    return len(at) == 1 or (len(at) == 2 and at[1] - at[0] > 1)
 
 
 def _ocr_variants(word: str, confusions: tuple[tuple[str, str], ...] | None = None) -> list[str]:

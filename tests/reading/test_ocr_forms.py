@@ -10,6 +10,7 @@ fragments (fictional Northgate Lane laboratory) pin the forms it found unread:
   "squamo-columnar junction");
 * glyph runs an OCR engine makes of one letter ("rn", "nn", "in", "ri", "ii" for
   "m", "m", "m", "n", "u"), and such a run plus one more slip in a long word;
+* two letters misread, not side by side, in a word of twelve letters or more;
 * a name joined by its comma form to the next sentence ("... adenocarcinoma.
   Metastatic ..." is no "adenocarcinoma, metastatic").
 
@@ -47,6 +48,9 @@ READ: list[tuple[str, str, str]] = [
     ("Cervix: squainous cell carcinoma, nonkeratinizing.", "squainous cell carcinoma",
      "squamous cell carcinoma"),
     ("Rectum: invasive carcinonna.", "carcinonna", "carcinoma"),
+    # two letters misread, apart, in a long word
+    ("Cecum: aaenocarcinomo, moderately differentiated.", "aaenocarcinomo", "adenocarcinoma"),
+    ("CECUM: ADENOCARC1NOMO, MODERATELY DIFFERENTIATED", "ADENOCARC1NOMO", "adenocarcinoma"),
 ]  # fmt: skip
 
 
@@ -67,6 +71,17 @@ def test_the_reading_says_what_it_read(matcher: ConceptMatcher) -> None:
 @pytest.mark.parametrize("text", ["Tumor focality: unifocal.", "vaginal corion", "a typical day"])
 def test_short_words_take_no_second_step(matcher: ConceptMatcher, text: str) -> None:
     assert [m.text for m in matcher.find(text) if m.match == "fuzzy"] == []
+
+
+# Two slips are letters misread in place: a word of another length, or with its
+# ending changed whole, is another word
+@pytest.mark.parametrize(
+    "text", ["Uterus: Mullerian adenosarcoma, low grade.", "Uterus: adenosarcomas, low grade."]
+)
+def test_two_slips_never_reach_another_tumour(
+    matcher: ConceptMatcher, onto: Ontology, text: str
+) -> None:
+    assert not reads_as(matcher, onto, text, "adenosarcoma", "adenocarcinoma")
 
 
 def test_a_name_does_not_join_the_next_sentence(matcher: ConceptMatcher, onto: Ontology) -> None:
