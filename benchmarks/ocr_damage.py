@@ -18,6 +18,9 @@ Kinds of damage (each applied once per name, at a random letter, seeded):
 * ``glue`` -- the space between two words lost (``squamouscell carcinoma``);
 * ``break`` -- a word broken over a line with a hyphen (``carci-\\nnoma``);
 * ``first_lost`` -- the name's first letter lost (``quamous cell carcinoma``);
+* ``header_misread`` -- the name left whole, the header of its section
+  (``FINAL DIAGNOSIS``) with two look-alike glyphs (``FINAI DIAGNO5IS``);
+* ``header_lost`` -- the header of its section blanked out;
 * ``removed`` -- the name replaced by spaces: the floor, what other cues in the
   report (metastasis wording, grade groups, fields) still give.
 
@@ -76,8 +79,13 @@ KINDS = (
     "glue",
     "break",
     "first_lost",
+    "header_misread",
+    "header_lost",
     "removed",
 )
+#: kinds that damage the header of each section holding a name, not the name: the
+#: damage done to the header's text
+HEADER_KINDS = {"header_misread": "two_look_alikes", "header_lost": "removed"}
 SCHEMES = ("lung", "cervix", "colorectal", "prostate")
 _WORD = re.compile(r"[A-Za-z]{4,}")
 
@@ -185,6 +193,21 @@ def _targets(result: Any, gold_type: str) -> list[tuple[int, int]]:
     return out
 
 
+def header_spans(text: str, spans: list[tuple[int, int]]) -> list[tuple[int, int]]:
+    """Spans of the headers of the sections that hold ``spans`` (as written)."""
+    from pathsieve.sections import find_sections
+
+    out: set[tuple[int, int]] = set()
+    sections = find_sections(text)
+    for s, _ in spans:
+        for sec in sections:
+            if sec.start <= s < sec.end and sec.header:
+                at = text.find(sec.header, sec.start, sec.body_start)
+                if at >= 0:
+                    out.add((at, at + len(sec.header)))
+    return sorted(out)
+
+
 def apply(text: str, spans: list[tuple[int, int]], fn: Callable[[str], str]) -> str:
     """``text`` with every span replaced by ``fn`` of its text (right to left)."""
     for s, e in sorted(spans, reverse=True):
@@ -223,7 +246,9 @@ def run(
             for c, gold_type, spans in picked[scheme]:
                 # one random stream per case and kind: runs are repeatable case by case
                 rng = random.Random(f"{seed}:{kind}:{c.case_id}")
-                damaged = apply(c.text, spans, lambda t, r=rng, k=kind: damage(t, k, r))
+                how = HEADER_KINDS.get(kind, kind)
+                where = header_spans(c.text, spans) if kind in HEADER_KINDS else spans
+                damaged = apply(c.text, where, lambda t, r=rng, k=how: damage(t, k, r))
                 ok = _right(scheme, gold_type, labelers[scheme].label_report(damaged))
                 tally = tallies[(kind, scheme)]
                 tally[0] += 1
@@ -231,8 +256,8 @@ def run(
                 if not ok and kind != "removed" and shown[kind] < show:
                     shown[kind] += 1
                     names = [
-                        repr(damage(c.text[s:e], kind, random.Random(f"{seed}:{kind}:{c.case_id}")))
-                        for s, e in spans[:3]
+                        repr(damage(c.text[s:e], how, random.Random(f"{seed}:{kind}:{c.case_id}")))
+                        for s, e in where[:3]
                     ]
                     failures.append(f"{kind:<16} {c.case_id}  {gold_type}  {', '.join(names)}")
     seconds = time.perf_counter() - t0
