@@ -120,14 +120,17 @@ _GENERIC_KEY = re.compile(
     _KEY_LEAD + r"[A-Za-z][A-Za-z0-9 /&,'+%\-]{0,50}" + _PARENS + r"[ \t]{0,8}:[ \t]{0,8}\S"
 )
 _FUZZY_LINE = re.compile(
-    _DECOR + _ENUM + r"(?P<w>[A-Za-z][A-Za-z &/'\-]{6,48}?)[ \t]{0,8}(?P<colon>:?)"
+    _DECOR + _ENUM + r"(?P<w>[A-Za-z][A-Za-z0-9$!(|&/'\- ]{6,48}?)[ \t]{0,8}(?P<colon>:?)"
     r"[ \t*=#~_>•·.\-]{0,12}$"
 )
 # An OCR-damaged header written inline, up to its colon ("I1PRESSION:Sub", "INPRE S S ION :"):
 # the head may hold digits, stray marks and spaces between letters.
-_FUZZY_HEAD = re.compile(_DECOR + _ENUM + r"(?P<w>[A-Za-z][A-Za-z0-9 &/'+.!|\-]{5,40}?)[ \t]{0,4}:")
-# Digits OCR reads for letters in a header ("I1PRESSION", "DIAGN0SIS", "5PECIMEN").
-_OCR_LETTERS = str.maketrans("105", "ios")
+_FUZZY_HEAD = re.compile(
+    _DECOR + _ENUM + r"(?P<w>[A-Za-z][A-Za-z0-9 &/'+.!|$(\-]{5,40}?)[ \t]{0,4}:"
+)
+# Digits and marks OCR reads for letters in a header ("I1PRESSION", "DIAGN0SIS",
+# "5PECIMEN", "DIAGNO$IS", "IMPRESS!ON", "MICROS(OPIC", "F|NAL").
+_OCR_LETTERS = str.maketrans("105$!(|", "iossicl")
 _NOT_LETTER = re.compile(r"[^a-z]+")
 #: A squeezed header (letters only) at least this long may have two OCR errors.
 _SQUEEZED_LONG = 10
@@ -651,7 +654,9 @@ class HeaderLexicon:
             return None
         if not capitals and any(len(w) <= 2 for w in words[1:]):
             return None
-        cutoff = 2 if len(q) >= _SQUEEZED_LONG else 1
+        # two edits in a head of ten letters or more; in capitals, of nine ("DIDGHOSIS")
+        long_from = _SQUEEZED_LONG - 1 if capitals else _SQUEEZED_LONG
+        cutoff = 2 if len(q) >= long_from else 1
         found = process.extract(q, syns, scorer=Levenshtein.distance, score_cutoff=cutoff, limit=4)
         if not found:
             return None

@@ -48,6 +48,8 @@ _HISTORY = "CLINICAL HISTORY:\nPelvic mass, Larkspur Valley Clinic.\nSPECIMEN/PR
         "INPRE S S ION :PAGE:1",  # letters spaced out, one misread
         "II+WRESSION:",  # two letters misread and a stray mark
         "IMPRESS1ON:",
+        "IMPRESS!ON:",  # a mark for a letter
+        "XPRESSION:",  # the first letter lost
     ],
 )
 def test_damaged_impression_header_heads_the_diagnosis(header_line: str) -> None:
@@ -73,6 +75,26 @@ def test_header_in_garbled_decoration(line: str, kind: str) -> None:
         "PREOPERATIVE DIAGNOSIS: Right lung mass\n" + line + "\n"
         "A. Right lower lobe, lobectomy:\nWell-differentiated adenocarcinoma, 3.1 cm.\n"
     )
+    assert [k for k, _ in _kinds(text)][-1] == kind
+    if kind == "diagnosis":
+        assert "diagnosis" in _decides("lung", text, "adenocarcinoma")
+
+
+@pytest.mark.parametrize(
+    ("line", "kind"),
+    [
+        ("DIAGNO$IS", "diagnosis"),  # "$" for "S"
+        ("DIDGHOSIS", "diagnosis"),  # two letters misread in a head of nine, in capitals
+        ("MICROS(OPIC DESCRIPTION", "microscopic"),  # "(" for "C"
+        ("F|NAL DIAGNOSIS:", "diagnosis"),  # "|" for "I"
+    ],
+)
+def test_header_with_marks_for_letters(line: str, kind: str) -> None:
+    text = (
+        "CLINICAL HISTORY: Left lung mass, Larkspur Valley Clinic.\n" + line + "\n"
+        "A. Left upper lobe, lobectomy:\nModerately differentiated adenocarcinoma, 2.2 cm.\n"
+    )
+    assert ("clinical_history", "CLINICAL HISTORY") in _kinds(text)
     assert [k for k, _ in _kinds(text)][-1] == kind
     if kind == "diagnosis":
         assert "diagnosis" in _decides("lung", text, "adenocarcinoma")
@@ -113,6 +135,8 @@ def test_trailing_header_decides_the_diagnosis() -> None:
     [
         # an ordinary word two letters from "impression" is not a damaged header
         "HER2 IHC\nEXPRESSION: strong complete membranous staining\n",
+        # nor, in Title Case, a word two letters from a nine-letter header
+        "Prognosis\nguarded, per Dr V. Ostrander\n",
         # a word starting with a digit is a code, not a damaged header
         "CASSETTE 4D-4E: tumor with closest margin\n",
         # Title Case "Key: value" lines are not read fuzzily inline
