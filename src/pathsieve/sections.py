@@ -888,6 +888,12 @@ def find_sections(text: str, *, lexicon: HeaderLexicon | None = None) -> list[Se
     lines = _line_table(scan)
     hits, keys = lex.classify(scan, lines)
     runs = _synoptic_runs(scan, lines, hits, keys, lex) if sum(keys) >= _MIN_KEYS else []
+    bare = _bare_key_runs(text, lines, hits, lex)
+    if bare:
+        taken = {i for first, last in runs for i in range(first, last + 1)}
+        runs = sorted(
+            runs + [(f, la) for f, la in bare if not taken.intersection(range(f, la + 1))]
+        )
 
     # Sweep lines in order: headers open sections; a bare synoptic run opens a
     # synoptic section (unless already in one) and hands back to the
@@ -1034,6 +1040,86 @@ def _synoptic_runs(
             i = k
         else:
             i = max(j, i + 1)
+    return runs
+
+
+#: A printed checklist of bare keys: how many keys make one, how many lines a value
+#: (or a key OCR has made unknown) may take, and the longest key line.
+_BARE_MIN_KEYS = 4
+_BARE_MAX_VALUE_LINES = 4
+_BARE_KEY_MAX = 40
+
+
+def _bare_key_runs(
+    text: str,
+    lines: list[tuple[int, int, int]],
+    hits: list[_Hit | None],
+    lex: HeaderLexicon,
+) -> list[tuple[int, int]]:
+    """Printed checklists: known keys in capitals alone on their lines, values below.
+
+    "HISTOLOGIC TYPE" / "Squamous cell carcinoma" / "HISTOLOGIC GRADE" / "G2": no
+    colons, so :func:`_synoptic_runs` sees no ``Key: value`` line.  A run starts
+    at such a key line, goes on over further key lines, up to
+    ``_BARE_MAX_VALUE_LINES`` other lines between two keys (values, keys OCR has
+    damaged) and a group heading in capitals ("MICROSCOPIC", a header elsewhere)
+    followed by such lines; a blank line, a longer stretch without a key, or a
+    header in lower case ends it.  It ends with the value of its last key and
+    counts with ``_BARE_MIN_KEYS`` keys or more.  Linear in the lines.
+    """
+    n = len(lines)
+    is_key = lex.is_synoptic_key
+    bare: list[bool] = []
+    for ls, le, _ in lines:
+        line = text[ls:le].strip()
+        bare.append(
+            0 < len(line) <= _BARE_KEY_MAX
+            and line.isupper()
+            and ":" not in line
+            and is_key(line.strip(" .-*"))
+        )
+    if sum(bare) < _BARE_MIN_KEYS:
+        return []
+    runs: list[tuple[int, int]] = []
+    i = 0
+    while i < n:
+        if not bare[i]:
+            i += 1
+            continue
+        first = last = i
+        count = 1
+        since = 0
+        j = i + 1
+        while j < n:
+            ls, le, _ = lines[j]
+            line = text[ls:le].strip()
+            if bare[j]:
+                count += 1
+                last = j
+                since = 0
+            elif not line:
+                break
+            elif hits[j] is not None and not line.isupper():
+                break  # a header written as prose ends the checklist
+            else:
+                since += 1
+                if since > _BARE_MAX_VALUE_LINES:
+                    break
+            j += 1
+        if count >= _BARE_MIN_KEYS:
+            # the last key's value: the lines after it that are no header
+            k = last + 1
+            while (
+                k < n
+                and k - last <= _BARE_MAX_VALUE_LINES
+                and hits[k] is None
+                and text[lines[k][0] : lines[k][1]].strip()
+            ):
+                k += 1
+            runs.append((first, k - 1))
+            i = k
+        else:
+            i = j
     return runs
 
 
