@@ -260,6 +260,13 @@ def _apply_implications(
         if any(u in plist.states for u in imp.unless):
             continue
         why = ""
+        if imp.site is not None and not any(
+            row.mention is not None
+            and row.part == plist.part
+            and onto.is_a(row.mention.concept_id, imp.site)
+            for row in evidence
+        ):
+            continue
         if imp.concept is not None:
             for row in evidence:
                 m = row.mention

@@ -97,7 +97,7 @@ def bears_on_labels(scheme: Scheme, concept_id: str) -> bool:
     """Whether a mention of ``concept_id`` can change a label table, whatever its assertion.
 
     It can when it counts for a label, when its negation reaches a label, or
-    when it sets off an implication: the ways :func:`~pathsieve.aggregate.aggregate`
+    when it sets off an implication or names the site one needs: the ways :func:`~pathsieve.aggregate.aggregate`
     uses a mention.  Any other (a site, a procedure) is evidence only.  A test
     holds label tables with and without this shortcut identical.
     """
@@ -106,7 +106,8 @@ def bears_on_labels(scheme: Scheme, concept_id: str) -> bool:
         return True
     onto = scheme.ontology
     return any(
-        imp.concept is not None and onto.is_a(concept_id, imp.concept)
+        (imp.concept is not None and onto.is_a(concept_id, imp.concept))
+        or (imp.site is not None and onto.is_a(concept_id, imp.site))
         for imp in scheme.implications
     )
 

@@ -57,6 +57,7 @@ class _When(BaseModel):
     concept: str | None = None
     value: str | None = None
     in_: list[str] | None = Field(default=None, alias="in")
+    site: str | None = None
 
     @model_validator(mode="after")
     def _one_kind(self) -> _When:
@@ -64,6 +65,8 @@ class _When(BaseModel):
             raise ValueError("'when' needs exactly one of 'concept' or 'value'")
         if self.value is not None and not self.in_:
             raise ValueError("'when: {value: ...}' needs an 'in' list")
+        if self.site is not None and self.concept is None:
+            raise ValueError("'when: {site: ...}' goes with 'concept'")
         return self
 
 
@@ -130,6 +133,8 @@ class Implication:
     value_key: str | None = None
     value_in: tuple[str, ...] = ()
     unless: tuple[str, ...] = ()
+    #: the concept counts only in a part that also names this site (or a narrower one)
+    site: str | None = None
 
 
 @dataclass
@@ -320,6 +325,10 @@ def _problems(
             problems.append(
                 f"{at('implications', i, 'when')}: class {imp.when.concept} is not in the ontology"
             )
+        if imp.when.site is not None and imp.when.site not in onto:
+            problems.append(
+                f"{at('implications', i, 'when')}: site {imp.when.site} is not in the ontology"
+            )
         if imp.when.value is not None and imp.when.value not in model.values:
             problems.append(
                 f"{at('implications', i, 'when')}: value {imp.when.value!r} is not among this "
@@ -387,6 +396,7 @@ def _load(path_str: str, digest: str, onto_path: str, onto_digest: str) -> Schem
             value_key=i.when.value,
             value_in=tuple(str(v) for v in (i.when.in_ or ())),
             unless=tuple(i.unless),
+            site=i.when.site,
         )
         for i in model.implications
     )

@@ -225,3 +225,44 @@ def test_keys_match_labels_md() -> None:
     common = re.search(r"## Values every scheme may emit(.*)", text, flags=re.S).group(1)
     for v in COMMON_VALUES:
         assert v in common
+
+
+def _with_implications(tmp_path: Path, block: str) -> Path:
+    src = (SCHEMES_DIR / "lung.yaml").read_text(encoding="utf-8")
+    head, rest = src.split("\nimplications:", 1)
+    tail = rest[rest.index("\ncategories:") :]
+    path = tmp_path / "mine.yaml"
+    path.write_text(head + "\nimplications:\n" + block + tail, encoding="utf-8")
+    return path
+
+
+@pytest.mark.parametrize(
+    ("block", "message"),
+    [
+        (
+            "  - when: {concept: PSV:0000109, site: PSV:9999999}\n"
+            "    then: {label: squamous_cell_carcinoma, state: likely}\n",
+            "site PSV:9999999 is not in the ontology",
+        ),
+        (
+            "  - when: {value: pt, in: [pT2], site: PSV:0001086}\n"
+            "    then: {label: squamous_cell_carcinoma, state: likely}\n",
+            "goes with 'concept'",
+        ),
+    ],
+)
+def test_implication_site_is_checked(tmp_path: Path, block: str, message: str) -> None:
+    path = _with_implications(tmp_path, block)
+    problems = check_scheme(path)
+    assert any(message in p for p in problems), problems
+
+
+def test_implication_site_loads(tmp_path: Path) -> None:
+    path = _with_implications(
+        tmp_path,
+        "  - when: {concept: PSV:0000109, site: PSV:0001086}\n"
+        "    then: {label: squamous_cell_carcinoma, state: likely}\n",
+    )
+    assert check_scheme(path) == []
+    (imp,) = load_scheme(path).implications
+    assert (imp.concept, imp.site) == ("PSV:0000109", "PSV:0001086")
