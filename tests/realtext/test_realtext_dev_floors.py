@@ -24,11 +24,11 @@ SAMPLE_EVERY = 3
 # two to three points below its measure.
 FLOORS: dict[str, float] = {
     "lung_histotype_accuracy": 0.94,  # (0.967)
-    "cervix_histotype_accuracy": 0.93,  # (0.959)
+    "cervix_histotype_accuracy": 0.93,  # (0.939)
     "colorectal_adenocarcinoma_recall": 0.93,  # (0.950)
     "prostate_adenocarcinoma_recall": 0.97,  # (1.000)
-    "pt_agreement": 0.93,  # (0.954)
-    "pt_coverage": 0.96,  # (0.988)
+    "pt_agreement": 0.94,  # (0.962)
+    "pt_coverage": 0.96,  # (0.979)
     "pn_agreement": 0.95,  # (0.981)
     "pn_coverage": 0.96,  # (0.991)
     "gleason_score_agreement": 0.93,  # (0.958)
