@@ -168,7 +168,6 @@ def test_unprefixed_string_is_pathological_with_a_flag(read: Read) -> None:
         "pT5",
         "pT0a",
         "pN4",
-        "pT3c/d",
         "The pTNM classification could not be assigned.",
         "PT/INR 12.5 sec",
         "Primary tumor (pT): Cannot be assessed",
@@ -180,6 +179,24 @@ def test_no_category_where_none_is_stated(read: Read, text: str) -> None:
         assert found == [("pt", "pT2", "pT2")]  # the T is real; "No" is not N0
     else:
         assert found == []
+
+
+@pytest.mark.parametrize(
+    ("text", "expected"),
+    [
+        ("Pathologic Stage: pT3c/d N2 MX", [("pt", "pT3", "pT3c/d"), ("pn", "pN2", "N2")]),
+        ("pT2a/b pN1a/b", [("pt", "pT2", "pT2a/b"), ("pn", "pN1", "pN1a/b")]),
+    ],
+)
+def test_two_subcategories_give_the_category_they_share(
+    read: Read, text: str, expected: list[tuple[str, str, str]]
+) -> None:
+    # "pT3c/d" is pT3 whichever subcategory is meant: the shared category is stated;
+    # the subcategory is not, and the flag says so (trade practice, no source)
+    assert tnm(read, text) == expected
+    for v in read(text):
+        if "/" in v.text:
+            assert "subcategory_uncertain" in v.flags
 
 
 @pytest.mark.parametrize(

@@ -10,6 +10,8 @@ Values keep their prefixes and suffixes: ``"ypT0"``, ``"rpT2"``, ``"pT1b(m)"``,
 - M0 is a clinical category (there is no pM0): "M0" and "pM0" give ``"cM0"``,
   the latter flagged ``pm0_not_valid``.
 - Clinical strings ("cT2 N0", "clinically T2N0") are not read.
+- A category written with two subcategories ("pT3c/d", "pN1a/b") is read as
+  the category they share ("pT3"), flagged ``subcategory_uncertain``.
 - OCR digits inside a category ("pNO", "pTIc", "pNlb") are read with the flag
   ``ocr_corrected``; only where the letter N/T/M makes the category certain: a
   prefix, a staging heading ("Pathological stage TINIMX"), or a string that goes
@@ -65,7 +67,7 @@ class TNMReader:
             rf"(?P<tc>(?i:is)(?![a-z])|[Xx]|a(?![A-Za-z])"
             rf"|(?P<td>[0-4]|{ocr}(?=[a-dA-D](?![a-z])|{ocr_tail}))(?P<tsub>mi(?![a-z])|[a-dA-D](?:[1-3](?!\d))?|[ ][a-d](?:[12](?!\d))?(?![A-Za-z0-9]))?)"
             r"(?P<tm>[ ]?\((?:m|\d{1,2})\))?"
-            r"(?=$|[^A-Za-z0-9]|[NM])(?!/[a-dA-D](?![A-Za-z]))"
+            r"(?P<talt>/[a-dA-D](?![A-Za-z]))?(?=$|[^A-Za-z0-9]|[NM])"
         )
 
         def n_category(end: str) -> str:
@@ -73,7 +75,7 @@ class TNMReader:
                 rf"(?P<nc>[Xx]|(?P<nd>[0-3]|{ocr}(?:(?=[a-cA-C](?![A-Za-z0-9]))|{end}))"
                 r"(?P<nsub>mi(?![a-z])|[a-cA-C](?![a-z]))?)"
                 r"(?P<nsuf>(?:[ ]?\((?:i[+-]|mol[+-]|sn|f)\)){0,2})"
-                r"(?=$|[^A-Za-z0-9]|[MRLV])(?!/[a-cA-C](?![A-Za-z]))"
+                r"(?P<nalt>/[a-cA-C](?![A-Za-z]))?(?=$|[^A-Za-z0-9]|[MRLV])"
             )
 
         # An N glued to its T ("pT2NO", "T2NO squamous cell carcinoma") is certain
@@ -301,6 +303,12 @@ class TNMReader:
             return "Ta" + mult
         digit = self._digit(m["td"], flags)
         sub = (m["tsub"] or "").replace(" ", "").lower()
+        if m["talt"]:
+            # "pT3c/d": one of two subcategories -- the category both share
+            if len(sub) != 1 or not sub.isalpha():
+                return None
+            sub = ""
+            flags.append("subcategory_uncertain")
         if digit == "0" and sub:
             return None  # T0 has no subcategories
         if sub == "mi" and digit != "1":
@@ -316,6 +324,11 @@ class TNMReader:
             return "NX" + suffix
         digit = self._digit(m["nd"], flags)
         sub = (m["nsub"] or "").lower()
+        if m["nalt"]:
+            if len(sub) != 1 or not sub.isalpha():
+                return None
+            sub = ""
+            flags.append("subcategory_uncertain")
         if digit == "0" and sub:
             return None
         if sub == "mi" and digit != "1":
