@@ -30,6 +30,7 @@ from .abbreviations import AbbreviationDictionary
 from .aggregate import section_role
 from .assertion import AssertionEngine
 from .matcher import ConceptMatcher
+from .morphology_codes import MorphologyCodes
 from .ontology import Ontology, load_ontology
 from .parts import find_parts
 from .records import DECIDING, Assertion, Mention, Part, ReadReport, Section, Segment, Value
@@ -88,6 +89,7 @@ class _State:
         )
         self.engine = AssertionEngine.load()
         self.type_fields = TypeFields.from_lexicon(default_lexicon())
+        self.codes = MorphologyCodes.from_ontology(ontology)
         self.site_root = _root(ontology, "anatomical site")
         self.procedure_root = _root(ontology, "procedure")
 
@@ -186,6 +188,7 @@ def _concepts(
     # the section at a short form helps choose among its senses
     mentions = st.matcher.find(text, section_at=section_at, place=place)
     mentions = st.type_fields.mentions(text, mentions, st.matcher, place)
+    mentions = st.codes.mentions(text, mentions, place)
     filled = tuple(_fill_part_concepts(st, parts, mentions))
     return tuple(mentions), filled, tuple(segments)
 
