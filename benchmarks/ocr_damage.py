@@ -248,17 +248,22 @@ def run(
                 rng = random.Random(f"{seed}:{kind}:{c.case_id}")
                 how = HEADER_KINDS.get(kind, kind)
                 where = header_spans(c.text, spans) if kind in HEADER_KINDS else spans
-                damaged = apply(c.text, where, lambda t, r=rng, k=how: damage(t, k, r))
+                written: list[str] = []  # the damaged spans, right to left
+
+                def hurt(
+                    t: str, r: random.Random = rng, k: str = how, w: list[str] = written
+                ) -> str:
+                    w.append(damage(t, k, r))
+                    return w[-1]
+
+                damaged = apply(c.text, where, hurt)
                 ok = _right(scheme, gold_type, labelers[scheme].label_report(damaged))
                 tally = tallies[(kind, scheme)]
                 tally[0] += 1
                 tally[1] += ok
                 if not ok and kind != "removed" and shown[kind] < show:
                     shown[kind] += 1
-                    names = [
-                        repr(damage(c.text[s:e], how, random.Random(f"{seed}:{kind}:{c.case_id}")))
-                        for s, e in where[:3]
-                    ]
+                    names = [repr(w) for w in reversed(written)][:3]
                     failures.append(f"{kind:<16} {c.case_id}  {gold_type}  {', '.join(names)}")
     seconds = time.perf_counter() - t0
 

@@ -321,6 +321,12 @@ class Results:
     by_scheme: dict[tuple[str, str], Tally] = field(default_factory=lambda: defaultdict(Tally))
     errors: dict[str, list[tuple[str, str]]] = field(default_factory=lambda: defaultdict(list))
 
+    def add_named(self, scheme: str, named: bool, right: bool) -> None:
+        """Count whether the text names the gold type, and if so whether it was read."""
+        self.named[scheme].add(named)
+        if named:
+            self.named_hit[scheme].add(right)
+
 
 def evaluate(split: str, cases: Sequence[Case], preds: Sequence[Prediction]) -> Results:
     """Compare predictions with the gold; errors are grouped by kind."""
@@ -342,11 +348,7 @@ def evaluate(split: str, cases: Sequence[Case], preds: Sequence[Prediction]) -> 
             if len(want) == 1:
                 ok = p.histotype == want[0]
                 r.histo[c.scheme].add(ok)
-                if want[0] in named_types(c.text):
-                    r.named[c.scheme].add(True)
-                    r.named_hit[c.scheme].add(ok)
-                else:
-                    r.named[c.scheme].add(False)
+                r.add_named(c.scheme, want[0] in named_types(c.text), ok)
                 r.confusion[c.scheme][(want[0], p.histotype)] += 1
                 r.ties += p.tie_broken
                 if not ok:
@@ -355,11 +357,7 @@ def evaluate(split: str, cases: Sequence[Case], preds: Sequence[Prediction]) -> 
             score = p.scores.get("adenocarcinoma")
             ok = score is not None and score >= 0.75
             r.recall[c.scheme].add(ok)
-            if "adenocarcinoma" in named_types(c.text):
-                r.named[c.scheme].add(True)
-                r.named_hit[c.scheme].add(ok)
-            else:
-                r.named[c.scheme].add(False)
+            r.add_named(c.scheme, "adenocarcinoma" in named_types(c.text), ok)
             if not ok:
                 err("adenocarcinoma missed", f"score {score}")
 
